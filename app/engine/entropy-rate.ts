@@ -1,0 +1,206 @@
+/**
+ * Shannon entropy rates: the general Markov formula and the closed forms (i.i.d., two-state,
+ * random walk on a weighted graph).
+ */
+import type { DenseMatrix, Rate, SparseMatrix } from "./types";
+import { Accumulator, LN2, ROW_SUM_TOLERANCE, binaryEntropyBits, negXLog2X } from "./numeric";
+import { EngineNumericError } from "./stationary";
+import { checkDenseNonnegative, checkSparseNonnegative, isSparseMatrix, sparseFromTriples } from "./sparse";
+
+function rate(bits: number): Rate {
+  // Entropies are ≥ 0; a compensated sum of non-negative terms can only round to −0, never below.
+  const b = bits > 0 ? bits : 0;
+  return { bits: b, nats: b * LN2 };
+}
+
+/**
+ * The entropy rate −Σ μᵢ Pᵢⱼ log Pᵢⱼ = Σ μᵢ h(Pᵢ·) (Shannon 1948) in bits and nats, summed row by
+ * row with compensation; never as H(X₁,X₂) − H(X₁), which cancels. μ is used as given (it should
+ * be stationary); entries of μ below 0 by no more than 1e-12 are rounding and count as 0.
+ * O(n²) dense, O(n + nnz) sparse. Throws EngineNumericError on a malformed P, a non-finite or
+ * negative entry, or μ of the wrong length / with a non-finite or clearly negative entry.
+ */
+export function entropyRateGeneral(P: DenseMatrix | SparseMatrix, mu: ArrayLike<number>): Rate {
+  const sparse = isSparseMatrix(P);
+  if (sparse) checkSparseNonnegative(P, "transition matrix");
+  else checkDenseNonnegative(P, "transition matrix");
+  const n = P.n;
+  if (mu.length !== n) throw new EngineNumericError(`entropyRateGeneral: μ has ${mu.length} entries, P has ${n} states`);
+  const total = new Accumulator();
+  for (let i = 0; i < n; i++) {
+    const m = mu[i];
+    if (!Number.isFinite(m) || m < -1e-12) throw new EngineNumericError(`entropyRateGeneral: μ[${i}] = ${m} is not a probability`);
+    if (m <= 0) continue;
+    const row = new Accumulator();
+    if (sparse) {
+      for (let p = P.rowPtr[i]; p < P.rowPtr[i + 1]; p++) row.add(negXLog2X(P.val[p]));
+    } else {
+      const r = i * n;
+      for (let j = 0; j < n; j++) row.add(negXLog2X(P.data[r + j]));
+    }
+    total.add(m * row.value());
+  }
+  return rate(total.value());
+}
+
+/**
+ * The entropy rate of an i.i.d. source, H(p) = −Σ pᵢ log pᵢ. O(n), compensated.
+ * Throws EngineNumericError if p is empty, has a negative or non-finite entry, or does not sum to 1
+ * within 1e-9.
+ */
+export function entropyRateIid(p: ArrayLike<number>): Rate {
+  if (p.length < 1) throw new EngineNumericError("entropyRateIid: empty distribution");
+  const sum = new Accumulator();
+  const h = new Accumulator();
+  for (let i = 0; i < p.length; i++) {
+    const x = p[i];
+    if (!(x >= 0) || x === Infinity) throw new EngineNumericError(`entropyRateIid: p[${i}] = ${x} must be finite and ≥ 0`);
+    sum.add(x);
+    h.add(negXLog2X(x));
+  }
+  if (Math.abs(sum.value() - 1) > ROW_SUM_TOLERANCE) throw new EngineNumericError(`entropyRateIid: probabilities sum to ${sum.value()}, not 1`);
+  return rate(h.value());
+}
+
+/**
+ * The two-state chain with a = P(0→1), b = P(1→0): μ = (b, a)/(a + b) and rate
+ * (b·h(a) + a·h(b))/(a + b). O(1). Throws EngineNumericError if a or b is outside [0, 1] or not a
+ * number, or a + b = 0 (both states absorbing: reducible, no single rate).
+ */
+export function entropyRateTwoState(a: number, b: number): { rate: Rate; stationary: [number, number] } {
+  if (!(a >= 0 && a <= 1)) throw new EngineNumericError(`entropyRateTwoState: a = ${a} must lie in [0, 1]`);
+  if (!(b >= 0 && b <= 1)) throw new EngineNumericError(`entropyRateTwoState: b = ${b} must lie in [0, 1]`);
+  const s = a + b;
+  if (s === 0) throw new EngineNumericError("entropyRateTwoState: a = b = 0, both states are absorbing (reducible chain)");
+  const mu0 = b / s;
+  const mu1 = a / s;
+  return { rate: rate((b * binaryEntropyBits(a) + a * binaryEntropyBits(b)) / s), stationary: [mu0, mu1] };
+}
+
+/** An undirected weighted edge list; a self-loop u == v adds w to u's weight once. */
+export interface WeightedEdges {
+  u: Int32Array;
+  v: Int32Array;
+  w: Float64Array;
+}
+
+function checkEdges(nodes: number, edges: WeightedEdges): void {
+  if (!Number.isInteger(nodes) || nodes < 1) throw new EngineNumericError(`graph walk: node count must be a positive integer, got ${nodes}`);
+  const m = edges.u.length;
+  if (edges.v.length !== m || edges.w.length !== m) throw new EngineNumericError("graph walk: u, v and w must have the same length");
+  for (let e = 0; e < m; e++) {
+    const u = edges.u[e];
+    const v = edges.v[e];
+    if (!(u >= 0 && u < nodes) || !(v >= 0 && v < nodes)) throw new EngineNumericError(`graph walk: edge ${e} joins ${u} and ${v}, outside 0…${nodes - 1}`);
+    const w = edges.w[e];
+    if (!(w >= 0) || w === Infinity) throw new EngineNumericError(`graph walk: edge ${e} has weight ${w}; weights must be finite and ≥ 0`);
+  }
+}
+
+/** Node weights Wᵢ = Σ_j wᵢⱼ (a self-loop counted once); throws if a node has no weight. */
+function nodeWeights(nodes: number, edges: WeightedEdges): Float64Array {
+  const W = new Float64Array(nodes);
+  const { u, v, w } = edges;
+  for (let e = 0; e < u.length; e++) {
+    W[u[e]] += w[e];
+    if (u[e] !== v[e]) W[v[e]] += w[e];
+  }
+  for (let i = 0; i < nodes; i++) if (!(W[i] > 0)) throw new EngineNumericError(`graph walk: node ${i} has no edges`);
+  return W;
+}
+
+/**
+ * The random walk on an undirected weighted graph, in closed form: μᵢ = Wᵢ/2W and
+ * H = H({Wᵢⱼ/2W}) − H({Wᵢ/2W}) (the walk is reversible; Levin, Peres and Wilmer, ch. 1–2), with
+ * parallel edges merged first. No linear solve. The graph is assumed connected (the caller checks
+ * components). O(nodes + edges). Throws EngineNumericError on an index out of range, a negative or
+ * non-finite weight, or a node without edges.
+ */
+export function graphWalkClosedForm(nodes: number, edges: WeightedEdges): { rate: Rate; stationary: Float64Array } {
+  checkEdges(nodes, edges);
+  const W = nodeWeights(nodes, edges);
+  const m = edges.u.length;
+  const { u, v, w } = edges;
+  const totalAcc = new Accumulator();
+  for (let i = 0; i < nodes; i++) totalAcc.add(W[i]);
+  const twoW = totalAcc.value();
+  const log2TwoW = Math.log2(twoW);
+
+  // Merge parallel edges: bucket by min endpoint (counting sort), then mark max endpoints per bucket.
+  const start = new Int32Array(nodes + 1);
+  for (let e = 0; e < m; e++) start[Math.min(u[e], v[e]) + 1]++;
+  for (let i = 0; i < nodes; i++) start[i + 1] += start[i];
+  const fill = start.slice(0, nodes);
+  const order = new Int32Array(m);
+  for (let e = 0; e < m; e++) order[fill[Math.min(u[e], v[e])]++] = e;
+  const mark = new Int32Array(nodes).fill(-1);
+  const slot = new Int32Array(nodes);
+  const merged = new Float64Array(m);
+  const isLoop = new Uint8Array(m);
+  let k = 0;
+  for (let a = 0; a < nodes; a++) {
+    for (let q = start[a]; q < start[a + 1]; q++) {
+      const e = order[q];
+      const b = Math.max(u[e], v[e]);
+      if (mark[b] === a) merged[slot[b]] += w[e];
+      else {
+        mark[b] = a;
+        slot[b] = k;
+        merged[k] = w[e];
+        isLoop[k] = a === b ? 1 : 0;
+        k++;
+      }
+    }
+  }
+  // H(edges): each merged non-loop edge is two directed entries of mass w/2W; a loop is one.
+  // −q log₂ q with q = w/2W is q·(log₂ 2W − log₂ w).
+  const hEdges = new Accumulator();
+  for (let t = 0; t < k; t++) {
+    const x = merged[t];
+    if (x <= 0) continue;
+    const q = x / twoW;
+    const term = q * (log2TwoW - Math.log2(x));
+    hEdges.add(isLoop[t] ? term : 2 * term);
+  }
+  const stationary = new Float64Array(nodes);
+  const hNodes = new Accumulator();
+  for (let i = 0; i < nodes; i++) {
+    const q = W[i] / twoW;
+    stationary[i] = q;
+    hNodes.add(q * (log2TwoW - Math.log2(W[i])));
+  }
+  return { rate: rate(hEdges.value() - hNodes.value()), stationary };
+}
+
+/**
+ * The transition matrix of the random walk, Pᵢⱼ = wᵢⱼ/Wᵢ, in CSR (parallel edges summed, a
+ * self-loop adds its weight once to Pᵢᵢ). O(nodes + edges) plus short per-row sorts.
+ * Throws EngineNumericError like graphWalkClosedForm.
+ */
+export function graphWalkMatrix(nodes: number, edges: WeightedEdges): SparseMatrix {
+  checkEdges(nodes, edges);
+  const W = nodeWeights(nodes, edges);
+  const m = edges.u.length;
+  let loops = 0;
+  for (let e = 0; e < m; e++) if (edges.u[e] === edges.v[e]) loops++;
+  const size = 2 * m - loops;
+  const rows = new Int32Array(size);
+  const cols = new Int32Array(size);
+  const vals = new Float64Array(size);
+  let t = 0;
+  for (let e = 0; e < m; e++) {
+    const a = edges.u[e];
+    const b = edges.v[e];
+    rows[t] = a;
+    cols[t] = b;
+    vals[t] = edges.w[e] / W[a];
+    t++;
+    if (a !== b) {
+      rows[t] = b;
+      cols[t] = a;
+      vals[t] = edges.w[e] / W[b];
+      t++;
+    }
+  }
+  return sparseFromTriples(nodes, rows, cols, vals);
+}

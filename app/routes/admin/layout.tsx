@@ -1,0 +1,13 @@
+import { Outlet } from "react-router";
+import { requireAdmin } from "~/.server/auth.server";
+import type { Route } from "./+types/layout";
+
+/** Gate for the whole area; each child still checks on its own (loaders run in parallel). */
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireAdmin(request);
+  return null;
+}
+
+export default function Layout() {
+  return <Outlet />;
+}
