@@ -10,4 +10,6 @@ export default defineConfig({
     exclude: ["pg", "drizzle-orm"],
   },
   server: { host: "127.0.0.1" },
+  // Several dev servers of one checkout can run side by side, each with its own optimiser cache.
+  cacheDir: process.env.VITE_CACHE_DIR ?? "node_modules/.vite",
 });

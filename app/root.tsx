@@ -10,12 +10,13 @@ import { getUser } from "./.server/auth.server";
 import { publicEnv } from "./.server/env.server";
 import { SiteFooter, SiteHeader } from "./components/site-shell";
 import { ENGINE_VERSION } from "./engine/version";
+import { UnitProvider, unitFromCookie } from "./units";
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await getUser(request);
-  return { user, env: publicEnv(), engineVersion: ENGINE_VERSION };
+  return { user, env: publicEnv(), engineVersion: ENGINE_VERSION, unit: unitFromCookie(request.headers.get("Cookie")) };
 }
 
 export function Layout({ children }: { children: React.ReactNode }) {
@@ -30,6 +31,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <Links />
       </head>
       <body className="flex min-h-screen flex-col">
+        <UnitProvider initial={root?.unit ?? "bits"}>
         <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:bg-card focus:p-2">
           Skip to content
         </a>
@@ -38,6 +40,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
           {children}
         </main>
         <SiteFooter engineVersion={root?.engineVersion ?? ENGINE_VERSION} />
+        </UnitProvider>
         <ScrollRestoration />
         <Scripts />
       </body>

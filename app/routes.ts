@@ -8,7 +8,14 @@ export default [
   route("sign-out", "routes/sign-out.tsx"),
 
   // The public library
-  ...prefix("library", [index("routes/library/index.tsx")]),
+  ...prefix("library", [
+    index("routes/library/index.tsx"),
+    route(":slug", "routes/library/model.tsx"),
+    route(":slug/e/:edition", "routes/library/edition.tsx"),
+    route(":slug/e/:edition/cite.bib", "routes/library/cite-bibtex.ts"),
+    route(":slug/e/:edition/cite.ris", "routes/library/cite-ris.ts"),
+    route(":slug/e/:edition/cite.json", "routes/library/cite-csl.ts"),
+  ]),
 
   // A contributor's private workspace
   layout("routes/workspace/layout.tsx", [...prefix("workspace", [index("routes/workspace/index.tsx")])]),
@@ -21,7 +28,13 @@ export default [
 
   // Machine-readable resources
   route("healthz", "routes/healthz.ts"),
-  ...prefix("api/v1", [route("compute", "routes/api/compute.ts")]),
+  ...prefix("api/v1", [
+    route("compute", "routes/api/compute.ts"),
+    route("search", "routes/api/search.ts"),
+    route("models", "routes/api/models.ts"),
+    route("models/:slug", "routes/api/model.ts"),
+    route("models/:slug/editions/:edition", "routes/api/edition.ts"),
+  ]),
 
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

@@ -1,5 +1,6 @@
 import { Form, NavLink } from "react-router";
 import { navigationFor, roleLabels, type SessionUser } from "~/permissions";
+import { UnitToggle } from "~/units";
 
 /** The shelf mark: three rules of falling length, the middle one in the accent. */
 export function ShelfMark({ className = "h-7 w-7" }: { className?: string }) {
@@ -41,6 +42,7 @@ export function SiteHeader({ user }: { user: SessionUser | null }) {
           </ul>
         </nav>
         <div className="ml-auto flex items-center gap-3 text-sm">
+          <UnitToggle />
           {user ? (
             <>
               <span className="hidden text-right leading-tight sm:block">
