@@ -12,3 +12,12 @@ export function formatBits(value: number | null | undefined, digits = 4): string
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
   return value.toFixed(digits);
 }
+
+/** Short family names for dense tables. */
+export const familyShort: Record<string, string> = {
+  iid: "i.i.d.",
+  markov: "Markov",
+  "two-state": "two-state",
+  "graph-walk": "graph walk",
+  hidden: "hidden",
+};

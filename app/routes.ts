@@ -18,7 +18,13 @@ export default [
   ]),
 
   // A contributor's private workspace
-  layout("routes/workspace/layout.tsx", [...prefix("workspace", [index("routes/workspace/index.tsx")])]),
+  layout("routes/workspace/layout.tsx", [
+    ...prefix("workspace", [
+      index("routes/workspace/index.tsx"),
+      route("new", "routes/workspace/new.tsx"),
+      route(":id", "routes/workspace/item.tsx"),
+    ]),
+  ]),
 
   // Curators' review
   layout("routes/review/layout.tsx", [...prefix("review", [index("routes/review/index.tsx")])]),
@@ -35,6 +41,9 @@ export default [
     route("models/:slug", "routes/api/model.ts"),
     route("models/:slug/editions/:edition", "routes/api/edition.ts"),
   ]),
+
+  // Development only: the fake mail server's inbox
+  route("dev/mail", "routes/dev/mail.tsx"),
 
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

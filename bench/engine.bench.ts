@@ -1,5 +1,5 @@
 /**
- * Engine benchmark: builds seeded inputs, runs each case several times and prints a table of
+ * Engine benchmark (kernels, then computeFigures end to end with verification): builds seeded inputs, runs each case several times and prints a table of
  * median / min wall time with an accuracy figure. Run with `npx tsx bench/engine.bench.ts`.
  * Scenario: chains modelled on a fictional coastal buoy telemetry network (dense state models),
  * its relay graph (sparse chains, a slowly mixing ring of relays with a small leak to the harbour
@@ -11,6 +11,7 @@ import { entropyRateGeneral, graphWalkClosedForm, type WeightedEdges } from "../
 import { minEntropyRateHoward, minEntropyRateKarp } from "../app/engine/min-entropy";
 import { renyiEntropyRate } from "../app/engine/renyi";
 import { sparseFromTriples } from "../app/engine/sparse";
+import { computeFigures } from "../app/engine/compute";
 
 function mulberry32(seed: number): () => number {
   let a = seed >>> 0;
@@ -166,6 +167,44 @@ try {
   });
 } catch (e) {
   table.push({ name: "hidden source: sandwich bounds", size: "4 states, binary, n ≤ 20", median: NaN, min: NaN, runs: 0, accuracy: `skipped: ${(e as Error).message.split("\n")[0]}` });
+}
+
+// Product path: computeFigures end to end (validation, figures, verification), in the request form.
+function transitionsOf(P: SparseMatrix): [number, number, number][] {
+  const t: [number, number, number][] = [];
+  for (let i = 0; i < P.n; i++) for (let p = P.rowPtr[i]; p < P.rowPtr[i + 1]; p++) t.push([i, P.col[p], P.val[p]]);
+  return t;
+}
+function product(name: string, size: string, runs: number, request: unknown): void {
+  measure(`computeFigures: ${name}`, size, runs, () => {
+    const r = computeFigures(request);
+    const left = r.notes.filter((x) => x.includes("not given")).length;
+    return `verified ${r.verification.passed}, H ${r.entropyRate?.bits.toFixed(6)}, Rényi ${r.renyi.length} (${left} left out)`;
+  });
+}
+for (const [n, runs] of [[64, 50], [512, 5], [2048, 2]] as const) {
+  const P = denseChain(n, rnd);
+  const rows = Array.from({ length: n }, (_, i) => Array.from(P.data.subarray(i * n, (i + 1) * n)));
+  product("dense chain", `n=${n}`, runs, { model: { family: "markov", alphabet: rows.map((_, i) => i), P: rows }, normalize: true });
+}
+{
+  const P = sparseChain(100_000, 10, rnd);
+  product("sparse random chain", `n=100000 nnz=${P.rowPtr[P.n]}`, 2, { model: { family: "markov", alphabet: Array.from({ length: P.n }, (_, i) => i), transitions: transitionsOf(P) }, normalize: true });
+}
+{
+  const P = leakyRing(100_000, 1e-4);
+  product("sparse ring, leak 1e-4", `n=100000 nnz=${P.rowPtr[P.n]}`, 3, { model: { family: "markov", alphabet: Array.from({ length: P.n }, (_, i) => i), transitions: transitionsOf(P) }, normalize: true });
+}
+{
+  const G = floorGraph(200_000, 1_000_000, rnd);
+  const edges = Array.from(G.u, (u, e) => [u, G.v[e], G.w[e]]);
+  product("graph walk", "nodes=200000 edges=1000000", 2, { model: { family: "graph-walk", nodes: Array.from({ length: 200_000 }, (_, i) => i), edges } });
+}
+{
+  const P = denseChain(4, rnd);
+  const B = [[0.9, 0.1], [0.2, 0.8], [0.6, 0.4], [0.05, 0.95]];
+  const rows = Array.from({ length: 4 }, (_, i) => Array.from(P.data.subarray(i * 4, i * 4 + 4)));
+  product("hidden source", "4 states, binary, n = 20", 3, { model: { family: "hidden", states: [0, 1, 2, 3], alphabet: ["0", "1"], P: rows, B }, blockLengths: 20, normalize: true });
 }
 
 const pad = (s: string, w: number) => s.padEnd(w);

@@ -103,7 +103,8 @@ export function prepareCatalogFile(file: string, raw: unknown): { meta: Omit<Cat
 
 /** Reads and prepares every catalog file in a folder (sorted by name). */
 export async function loadCatalog(dir: string) {
-  const names = (await readdir(dir)).filter((n) => n.endsWith(".json")).sort();
+  // schema.json is the JSON Schema of the format, not a model.
+  const names = (await readdir(dir)).filter((n) => n.endsWith(".json") && n !== "schema.json").sort();
   const out = [];
   const slugs = new Set<string>();
   for (const name of names) {

@@ -2,8 +2,11 @@
  * Reading the library: models with their latest edition's key figures.
  */
 import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { citationKey } from "~/citations";
 import type { ComputeResult, Family, ModelParams, VerificationRecord } from "~/engine";
+import { toSearchParams, type SearchQuery } from "~/search-params";
 import { db } from "./db.server";
+import { searchLibrary } from "./search.server";
 import { editions, models } from "./schema";
 
 export interface ModelSummary {
@@ -136,9 +139,12 @@ async function loadEdition(model: ModelSummary, number: number): Promise<Edition
   };
 }
 
+/** Edition numbers are PostgreSQL integers; a larger number cannot name an edition. */
+const MAX_EDITION_NUMBER = 2_147_483_647;
+
 /** One edition of a model, or null for an unknown slug or number. */
 export async function getEdition(slug: string, number: number): Promise<EditionRecord | null> {
-  if (!Number.isSafeInteger(number) || number < 1) return null;
+  if (!Number.isSafeInteger(number) || number < 1 || number > MAX_EDITION_NUMBER) return null;
   const model = await findModel(slug);
   if (!model) return null;
   return loadEdition(model, number);
@@ -171,7 +177,7 @@ export interface LibraryRow {
   updatedAt: Date;
 }
 
-/** Every model with its newest edition's figures, newest first. */
+/** Every model with its latest edition's figures, most recently updated first. */
 export async function listLibrary(limit = 500): Promise<LibraryRow[]> {
   const rows = await db()
     .selectDistinctOn([models.id], {
@@ -187,7 +193,8 @@ export async function listLibrary(limit = 500): Promise<LibraryRow[]> {
     .from(models)
     .innerJoin(editions, eq(editions.modelId, models.id))
     .where(eq(models.isSynthetic, false))
-    .orderBy(models.id, desc(editions.number));
+    // The latest edition: the newest that is not retracted, else the newest (as getLatestEdition).
+    .orderBy(models.id, sql`(${editions.retractedAt} is null) desc`, desc(editions.number));
   rows.sort((a, b) => b.updatedAt.getTime() - a.updatedAt.getTime() || a.title.localeCompare(b.title));
   return rows.slice(0, limit).map((r) => {
     const f = (r.figures ?? {}) as { entropyRate?: { bits?: number } | null; minEntropyRate?: { bits?: number } | null; states?: unknown[] };
@@ -211,8 +218,157 @@ export async function libraryStats() {
   const [row] = await db()
     .select({
       models: sql<number>`(select count(*) from ${models} where not ${models.isSynthetic})::int`,
-      editions: sql<number>`(select count(*) from ${editions})::int`,
+      editions: sql<number>`(select count(*) from ${editions} e join ${models} m on m.id = e.model_id where not m.is_synthetic)::int`,
     })
     .from(sql`(select 1) as one`);
   return row ?? { models: 0, editions: 0 };
+}
+
+// ---------------------------------------------------------------------------------------------
+// The read-only library API (GET /api/v1/models…): JSON shapes and cache validators.
+
+/** The permanent URL path of an edition. */
+export function editionPath(slug: string, number: number): string {
+  return `/library/${encodeURIComponent(slug)}/e/${number}`;
+}
+
+/** The API path of an edition. */
+export function editionApiPath(slug: string, number: number): string {
+  return `/api/v1/models/${encodeURIComponent(slug)}/editions/${number}`;
+}
+
+/** A model as the API shows it (the internal id stays inside). */
+export function modelJson(model: ModelSummary) {
+  return {
+    slug: model.slug,
+    title: model.title,
+    family: model.family,
+    summary: model.summary,
+    tags: model.tags,
+    provenance: model.provenance,
+    methods: model.methods,
+    createdAt: model.createdAt.toISOString(),
+    updatedAt: model.updatedAt.toISOString(),
+  };
+}
+
+function retractionJson(e: { retractedAt: Date | null; retractionReason: string | null }) {
+  return e.retractedAt ? { at: e.retractedAt.toISOString(), reason: e.retractionReason ?? "" } : null;
+}
+
+/** GET /api/v1/models/:slug: the model, its editions (oldest first) and links. */
+export function modelResource(found: { model: ModelSummary; editions: EditionSummary[] }) {
+  const { model, editions: list } = found;
+  const latest = [...list].reverse().find((e) => !e.retractedAt) ?? list[list.length - 1];
+  return {
+    model: modelJson(model),
+    latestEdition: latest ? latest.number : null,
+    editions: list.map((e) => ({
+      number: e.number,
+      note: e.note,
+      publishedAt: e.publishedAt.toISOString(),
+      retraction: retractionJson(e),
+      contentHash: e.contentHash,
+      entropyRateBits: e.entropyRateBits,
+      minEntropyRateBits: e.minEntropyRateBits,
+      citationKey: citationKey(model.slug, e.number),
+      links: { self: editionApiPath(model.slug, e.number), html: editionPath(model.slug, e.number) },
+    })),
+    links: {
+      self: `/api/v1/models/${encodeURIComponent(model.slug)}`,
+      html: `/library/${encodeURIComponent(model.slug)}`,
+      latest: latest ? editionApiPath(model.slug, latest.number) : null,
+    },
+  };
+}
+
+/**
+ * GET /api/v1/models/:slug/editions/:n. Everything here is fixed once the edition is published
+ * except the retraction, which the ETag carries; which edition is newest is on the model resource.
+ */
+export function editionResource(record: EditionRecord) {
+  const { model } = record;
+  return {
+    model: { slug: model.slug, title: model.title, family: model.family },
+    number: record.number,
+    note: record.note,
+    publishedAt: record.publishedAt.toISOString(),
+    retraction: retractionJson(record),
+    citationKey: citationKey(model.slug, record.number),
+    url: editionPath(model.slug, record.number),
+    contentHash: record.contentHash,
+    engineVersion: record.engineVersion,
+    params: record.params,
+    figures: record.figures,
+    verification: record.verification,
+    links: {
+      self: editionApiPath(model.slug, record.number),
+      html: editionPath(model.slug, record.number),
+      model: `/api/v1/models/${encodeURIComponent(model.slug)}`,
+      bibtex: `${editionPath(model.slug, record.number)}/cite.bib`,
+      ris: `${editionPath(model.slug, record.number)}/cite.ris`,
+      csl: `${editionPath(model.slug, record.number)}/cite.json`,
+    },
+  };
+}
+
+/** The strong validator of an edition resource: its content hash and whether it is retracted. */
+export function editionETag(record: Pick<EditionSummary, "contentHash" | "retractedAt">): string {
+  return `"${record.contentHash}-${record.retractedAt ? "retracted" : "standing"}"`;
+}
+
+/** Whether an If-None-Match header names this ETag (a list, weak forms and `*` included). */
+export function ifNoneMatchHits(header: string | null, etag: string): boolean {
+  if (!header) return false;
+  const bare = etag.replace(/^W\//, "");
+  return header.split(",").some((part) => {
+    const tag = part.trim();
+    return tag === "*" || tag.replace(/^W\//, "") === bare;
+  });
+}
+
+/**
+ * GET /api/v1/models: one page of models under the search parameters, each with its links, and
+ * links to the neighbouring pages.
+ */
+export async function listModelsPage(query: SearchQuery) {
+  const result = await searchLibrary(query);
+  const pages = Math.max(1, Math.ceil(result.total / result.pageSize));
+  const pageLink = (page: number) => {
+    const qs = toSearchParams({ ...query, page }).toString();
+    return `/api/v1/models${qs ? `?${qs}` : ""}`;
+  };
+  return {
+    total: result.total,
+    page: result.page,
+    pageSize: result.pageSize,
+    pages,
+    sort: result.sort,
+    dir: result.dir,
+    models: result.rows.map((r) => ({
+      slug: r.slug,
+      title: r.title,
+      family: r.family,
+      summary: r.summary,
+      tags: r.tags,
+      latestEdition: r.latestEdition,
+      states: r.states,
+      entropyRateBits: r.entropyRateBits,
+      minEntropyRateBits: r.minEntropyRateBits,
+      updatedAt: r.updatedAt.toISOString(),
+      score: r.score,
+      citationKey: citationKey(r.slug, r.latestEdition),
+      links: {
+        self: `/api/v1/models/${encodeURIComponent(r.slug)}`,
+        html: `/library/${encodeURIComponent(r.slug)}`,
+        latest: editionApiPath(r.slug, r.latestEdition),
+      },
+    })),
+    links: {
+      self: pageLink(result.page),
+      first: pageLink(1),
+      prev: result.page > 1 ? pageLink(Math.min(result.page - 1, pages)) : null,
+      next: result.page < pages ? pageLink(result.page + 1) : null,
+    },
+  };
 }

@@ -15,7 +15,7 @@ import { classify, type Classification } from "./classify";
 import { EngineNumericError, stationaryGTH, stationaryIterative, stationaryResidual } from "./stationary";
 import { entropyRateGeneral, entropyRateIid, entropyRateTwoState, graphWalkClosedForm, graphWalkMatrix, type WeightedEdges } from "./entropy-rate";
 import { blockEntropies, type BlockEntropy } from "./block-entropy";
-import { renyiEntropyRate } from "./renyi";
+import { renyiEntropyRate, reversibleRenyiEntropyRate } from "./renyi";
 import { minEntropyRateHoward, minEntropyRateKarp } from "./min-entropy";
 import { hiddenMonteCarlo, hiddenSourceBounds, type EmissionMatrix } from "./hidden";
 import { verifyFigures, type VerificationRecord } from "./verification";
@@ -24,6 +24,11 @@ import { verifyFigures, type VerificationRecord } from "./verification";
 export const GTH_LIMIT = 1024;
 /** Classes up to this size get Karp's min-entropy (O(n·nnz)); above it Howard is published. */
 export const KARP_LIMIT = 512;
+/**
+ * Work budget (entry operations) of one Rényi order's Perron root on the product path; an order not
+ * obtained within it is left out with a note. Graph walks give half to the symmetric route first.
+ */
+export const RENYI_WORK_BUDGET = 1e8;
 /** Rényi orders always reported, besides the requested ones. */
 export const DEFAULT_RENYI_ORDERS = [0.5, 2, 4] as const;
 /** Default longest block length for block entropies and hidden-source bounds. */
@@ -240,7 +245,7 @@ function classRenyi(
   const out: RenyiFigure[] = [];
   for (const order of orders) {
     try {
-      const r = M.n === 1 ? { bits: 0, nats: 0 } : (closedForm?.(M, order) ?? renyiEntropyRate(M, order));
+      const r = M.n === 1 ? { bits: 0, nats: 0 } : (closedForm?.(M, order) ?? renyiEntropyRate(M, order, { workBudget: RENYI_WORK_BUDGET }));
       out.push({ order, bits: r.bits, nats: r.nats });
     } catch (e) {
       if (!(e instanceof EngineNumericError)) throw e;
@@ -519,6 +524,21 @@ export function graphEdges(m: Extract<ModelParams, { family: "graph-walk" }>): W
   };
 }
 
+/**
+ * Rényi rate of a graph walk's class through its symmetric form (the walk is reversible), with half
+ * of RENYI_WORK_BUDGET; null (so the general power-iteration route runs with its own budget) when
+ * the symmetric bracket does not narrow in time. O(budget).
+ */
+export function graphWalkRenyi(M: DenseMatrix | SparseMatrix, order: number): Rate | null {
+  try {
+    const r = reversibleRenyiEntropyRate(M, order, { workBudget: RENYI_WORK_BUDGET / 2 });
+    return { bits: r.bits, nats: r.nats };
+  } catch (e) {
+    if (e instanceof EngineNumericError) return null;
+    throw e;
+  }
+}
+
 function computeGraphWalk(m: Extract<ModelParams, { family: "graph-walk" }>, req: ValidComputeRequest): UnverifiedResult {
   const prep = prepareChain(m);
   const { chain, labels } = prep;
@@ -538,7 +558,7 @@ function computeGraphWalk(m: Extract<ModelParams, { family: "graph-walk" }>, req
     const cf = graphWalkClosedForm(states.length, sub);
     return { mu: cf.stationary, rate: cf.rate, method: "closed form (graph walk, μᵢ = Wᵢ/2W)" };
   };
-  const r = chainResult("graph-walk", chain, labels, labels, 1, req, closedForm);
+  const r = chainResult("graph-walk", chain, labels, labels, 1, req, closedForm, graphWalkRenyi);
   if (r.closedClasses.length > 1) {
     r.message = `the graph has ${r.closedClasses.length} connected components, so the walk's entropy rate depends on where it starts; each component's figures are given in closedClasses`;
   }

@@ -7,7 +7,13 @@ import { LN2 } from "./numeric";
 import { EngineNumericError } from "./stationary";
 import { classify } from "./classify";
 import { howardMaxMeanCycle, logGraph } from "./min-entropy";
-import { checkDenseNonnegative, checkSparseNonnegative, isSparseMatrix, toSparse } from "./sparse";
+import { checkDenseNonnegative, checkSparseNonnegative, isSparseMatrix, toSparse, transposeSparse } from "./sparse";
+
+function checkBudget(b: number | undefined): number {
+  const budget = b ?? PERRON_WORK_BUDGET;
+  if (!(budget > 0)) throw new EngineNumericError(`perronRoot: workBudget must be > 0, got ${budget}`);
+  return budget;
+}
 
 /** Result of a Perron-root computation. */
 export interface PerronResult {
@@ -162,29 +168,48 @@ function nodaPerron(n: number, rowPtr: Int32Array, col: Int32Array, val: Float64
 }
 
 /**
- * The Perron root by shifted power iteration, falling back to Noda iteration (dense, up to
- * NODA_DENSE_LIMIT states) when the power iteration is slow, as on nearly decomposable matrices.
- * Throws EngineNumericError if neither converges.
+ * Default work budget of one Perron-root computation, in entry operations (a power iteration costs
+ * n + nnz, a dense Noda step n³/3): about a quarter of a second here. Beyond it the figure is not
+ * obtained and the caller leaves it out with a note (never a guess).
  */
-function perronCore(n: number, rowPtr: Int32Array, col: Int32Array, val: Float64Array, tol: number, maxIterations: number): { root: number; vector: Float64Array; iterations: number } {
-  const quick = powerPerron(n, rowPtr, col, val, tol, n <= NODA_DENSE_LIMIT ? Math.min(maxIterations, 2000) : maxIterations);
+export const PERRON_WORK_BUDGET = 2e8;
+
+/**
+ * The Perron root by shifted power iteration, falling back to Noda iteration (dense) when the power
+ * iteration is slow, as on nearly decomposable matrices, and the O(n³) steps fit the work budget.
+ * Throws EngineNumericError if neither converges within maxIterations and the budget.
+ */
+function perronCore(n: number, rowPtr: Int32Array, col: Int32Array, val: Float64Array, tol: number, maxIterations: number, workBudget: number): { root: number; vector: Float64Array; iterations: number } {
+  const perIteration = n + rowPtr[n];
+  // Eight Noda steps (each an n³/3 elimination) must fit in what the power phase leaves.
+  const nodaCost = 8 * (n * n * n / 3 + 2 * n * n);
+  const noda = n <= NODA_DENSE_LIMIT && nodaCost <= workBudget / 2;
+  const powerBudget = noda ? workBudget - nodaCost : workBudget;
+  const cap = Math.max(1, Math.min(maxIterations, Math.floor(powerBudget / perIteration), noda ? 2000 : Infinity));
+  const quick = powerPerron(n, rowPtr, col, val, tol, cap);
   if (quick.converged) return quick;
-  if (n <= NODA_DENSE_LIMIT) {
-    const noda = nodaPerron(n, rowPtr, col, val, quick.vector, tol);
-    if (noda) return { ...noda, iterations: quick.iterations + noda.iterations };
+  if (noda) {
+    const r = nodaPerron(n, rowPtr, col, val, quick.vector, tol);
+    if (r) return { ...r, iterations: quick.iterations + r.iterations };
   }
-  throw new EngineNumericError(`perronRoot: no convergence to ${tol} in ${quick.iterations} iterations (bracket ${quick.width})`);
+  const budgetSpent = cap < maxIterations && !noda;
+  throw new EngineNumericError(
+    budgetSpent
+      ? `perronRoot: the work budget (${workBudget.toExponential(1)} entry operations, ${cap} iterations of ${perIteration}) was spent before the Collatz–Wielandt bracket narrowed to ${tol} (it reached ${quick.width.toExponential(1)})`
+      : `perronRoot: no convergence to ${tol} in ${quick.iterations} iterations (bracket ${quick.width})`,
+  );
 }
 
 /**
  * The natural log of the Perron root of a nonnegative irreducible matrix, with its positive
  * right vector, by shifted power iteration with Collatz–Wielandt stopping (relative bracket
- * ≤ tolerance, default 1e-13; maxIterations default 100,000). The matrix is first divided by its
- * largest entry so that huge or tiny entries do not overflow. O(nnz) per iteration.
+ * ≤ tolerance, default 1e-13; maxIterations default 100,000; workBudget default PERRON_WORK_BUDGET
+ * entry operations). The matrix is first divided by its largest entry so that huge or tiny entries
+ * do not overflow. O(n + nnz) per iteration, at most workBudget in all.
  * Throws EngineNumericError on a malformed, negative, non-finite, all-zero or reducible matrix,
- * or when the iteration does not converge.
+ * or when the iteration does not converge within the iterations and the budget.
  */
-export function perronRoot(A: DenseMatrix | SparseMatrix, opts: { tolerance?: number; maxIterations?: number } = {}): PerronResult {
+export function perronRoot(A: DenseMatrix | SparseMatrix, opts: { tolerance?: number; maxIterations?: number; workBudget?: number } = {}): PerronResult {
   if (isSparseMatrix(A)) checkSparseNonnegative(A);
   else checkDenseNonnegative(A);
   const tol = opts.tolerance ?? 1e-13;
@@ -199,7 +224,7 @@ export function perronRoot(A: DenseMatrix | SparseMatrix, opts: { tolerance?: nu
   if (!cls.irreducible) throw new EngineNumericError(`perronRoot: matrix is reducible (${cls.classes.length} classes)`);
   const val = new Float64Array(S.val.length);
   for (let p = 0; p < val.length; p++) val[p] = S.val[p] / max;
-  const r = perronCore(S.n, S.rowPtr, S.col, val, tol, maxIterations);
+  const r = perronCore(S.n, S.rowPtr, S.col, val, tol, maxIterations, checkBudget(opts.workBudget));
   return { logRoot: Math.log(max) + Math.log(r.root), vector: r.vector, iterations: r.iterations };
 }
 
@@ -211,10 +236,12 @@ export function perronRoot(A: DenseMatrix | SparseMatrix, opts: { tolerance?: nu
  * so ρ(B) ∈ [1, n] and log λ(α) = α·c + log ρ(B) with nothing underflowing that matters.
  * Periodic chains work (shifted power iteration). Accuracy: log λ is found to about 1e-13 relative
  * to ρ(B), so the rate carries an absolute error of roughly 1e-13/|1 − α| nats — about 1e-9 at
- * α = 1 ± 1e-4; as α → ∞ it tends to the min-entropy rate. O(nnz) per power iteration plus Howard.
- * Throws EngineNumericError if α is not a finite number > 0 and ≠ 1, or P is malformed or reducible.
+ * α = 1 ± 1e-4; as α → ∞ it tends to the min-entropy rate. O(nnz) per power iteration plus Howard,
+ * at most opts.workBudget (default PERRON_WORK_BUDGET) entry operations for the Perron root.
+ * Throws EngineNumericError if α is not a finite number > 0 and ≠ 1, P is malformed or reducible,
+ * or the Perron root is not obtained within the budget (the message says so).
  */
-export function renyiEntropyRate(P: DenseMatrix | SparseMatrix, alpha: number): Rate {
+export function renyiEntropyRate(P: DenseMatrix | SparseMatrix, alpha: number, opts: { workBudget?: number } = {}): Rate {
   if (!Number.isFinite(alpha) || !(alpha > 0) || alpha === 1) {
     throw new EngineNumericError(`renyiEntropyRate: order α must be a finite number > 0 other than 1 (α = 1 is the Shannon rate), got ${alpha}`);
   }
@@ -232,9 +259,234 @@ export function renyiEntropyRate(P: DenseMatrix | SparseMatrix, alpha: number): 
       val[p] = Math.exp(Math.min(e, 700)); // e ≤ 0 up to rounding; the cap only guards overflow
     }
   }
-  const r = perronCore(n, G.rowPtr, G.col, val, 1e-14, 200_000);
+  const r = perronCore(n, G.rowPtr, G.col, val, 1e-14, 200_000, checkBudget(opts.workBudget));
   const logLambda = alpha * c + Math.log(r.root);
   let nats = logLambda / (1 - alpha);
   if (!(nats > 0)) nats = 0; // a Rényi rate is ≥ 0; rounding may push it a hair below
   return { bits: nats / LN2, nats };
+}
+
+/** Eigenvalues and vectors of a small dense symmetric matrix by cyclic Jacobi rotations (Jacobi 1846). O(m³) per sweep. */
+function jacobiEigen(m: number, a: Float64Array): { values: Float64Array; vectors: Float64Array } {
+  const v = new Float64Array(m * m);
+  for (let i = 0; i < m; i++) v[i * m + i] = 1;
+  for (let sweep = 0; sweep < 60; sweep++) {
+    let off = 0;
+    for (let i = 0; i < m; i++) for (let j = i + 1; j < m; j++) off += a[i * m + j] ** 2;
+    if (off < 1e-300) break;
+    for (let p = 0; p < m; p++) {
+      for (let q = p + 1; q < m; q++) {
+        const apq = a[p * m + q];
+        if (Math.abs(apq) < 1e-300) continue;
+        const theta = (a[q * m + q] - a[p * m + p]) / (2 * apq);
+        const t = Math.sign(theta || 1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
+        const c = 1 / Math.sqrt(t * t + 1);
+        const s = t * c;
+        for (let k = 0; k < m; k++) {
+          const akp = a[k * m + p];
+          const akq = a[k * m + q];
+          a[k * m + p] = c * akp - s * akq;
+          a[k * m + q] = s * akp + c * akq;
+        }
+        for (let k = 0; k < m; k++) {
+          const apk = a[p * m + k];
+          const aqk = a[q * m + k];
+          a[p * m + k] = c * apk - s * aqk;
+          a[q * m + k] = s * apk + c * aqk;
+        }
+        for (let k = 0; k < m; k++) {
+          const vkp = v[k * m + p];
+          const vkq = v[k * m + q];
+          v[k * m + p] = c * vkp - s * vkq;
+          v[k * m + q] = s * vkp + c * vkq;
+        }
+      }
+    }
+  }
+  const values = new Float64Array(m);
+  for (let i = 0; i < m; i++) values[i] = a[i * m + i];
+  return { values, vectors: v };
+}
+
+function csrApply(n: number, rowPtr: Int32Array, col: Int32Array, val: Float64Array, x: Float64Array, y: Float64Array): void {
+  for (let i = 0; i < n; i++) {
+    let s = 0;
+    for (let p = rowPtr[i]; p < rowPtr[i + 1]; p++) s += val[p] * x[col[p]];
+    y[i] = s;
+  }
+}
+
+/** A bracket of a Perron root with the vector it came from. */
+interface PerronBracket {
+  lower: number;
+  upper: number;
+  vector: Float64Array;
+  work: number;
+}
+
+/**
+ * The Perron root of a symmetric nonnegative CSR matrix by explicitly restarted Lanczos with full
+ * reorthogonalisation (Lanczos 1950; restarts from the Ritz vector), which converges at a rate
+ * governed by the square root of the spectral gap instead of the gap itself. Returns a rigorous
+ * bracket from the final positive vector x = |Ritz vector|: lower = max(Rayleigh quotient xᵀSx/xᵀx
+ * (valid for any x because S is symmetric), min (Sx)ᵢ/xᵢ), upper = max (Sx)ᵢ/xᵢ (Collatz–Wielandt).
+ * Stops when the bracket is relatively narrower than tol or the work budget is spent.
+ * O((n + nnz)·m + n·m²) per restart with m = min(n, 24) basis vectors.
+ */
+const POLISH_STEPS = 4;
+
+function lanczosPerron(n: number, rowPtr: Int32Array, col: Int32Array, val: Float64Array, tol: number, workBudget: number): PerronBracket {
+  const m = Math.min(n, 24);
+  const perMatvec = n + rowPtr[n];
+  const basis = Array.from({ length: m + 1 }, () => new Float64Array(n));
+  const w = new Float64Array(n);
+  let x = new Float64Array(n).fill(1 / Math.sqrt(n));
+  let work = 0;
+  let best: PerronBracket = { lower: 0, upper: Infinity, vector: new Float64Array(n).fill(1 / n), work: 0 };
+  const bracketOf = (y: Float64Array): void => {
+    const pos = new Float64Array(n);
+    let big = 0;
+    for (let i = 0; i < n; i++) big = Math.max(big, Math.abs(y[i]));
+    for (let i = 0; i < n; i++) pos[i] = Math.max(Math.abs(y[i]) / big, 1e-300);
+    // A few plain power steps: sums of positive terms without cancellation restore the relative
+    // accuracy of small components, which the Collatz–Wielandt maximum is sensitive to.
+    for (let t = 0; t < POLISH_STEPS; t++) {
+      csrApply(n, rowPtr, col, val, pos, w);
+      let mx = 0;
+      for (let i = 0; i < n; i++) mx = Math.max(mx, w[i]);
+      for (let i = 0; i < n; i++) pos[i] = Math.max(w[i] / mx, 1e-300);
+    }
+    csrApply(n, rowPtr, col, val, pos, w);
+    work += (POLISH_STEPS + 1) * perMatvec;
+    let lo = Infinity;
+    let hi = 0;
+    let num = 0;
+    let den = 0;
+    for (let i = 0; i < n; i++) {
+      const r = w[i] / pos[i];
+      if (r < lo) lo = r;
+      if (r > hi) hi = r;
+      num += pos[i] * w[i];
+      den += pos[i] * pos[i];
+    }
+    const lower = Math.max(lo, num / den);
+    const upper = Math.min(hi, best.upper);
+    if (upper - lower < best.upper - best.lower || best.upper === Infinity) {
+      let s = 0;
+      for (let i = 0; i < n; i++) s += pos[i];
+      best = { lower: Math.max(lower, best.lower), upper, vector: pos.map((v) => v / s), work };
+    } else best = { ...best, lower: Math.max(best.lower, lower), upper };
+  };
+  for (let restart = 0; restart < 1000; restart++) {
+    const cycleCost = m * perMatvec + m * m * n + m * n + (POLISH_STEPS + 1) * perMatvec;
+    if (work + cycleCost > workBudget) break;
+    const alpha = new Float64Array(m);
+    const beta = new Float64Array(m);
+    basis[0].set(x);
+    let k = 0;
+    for (; k < m; k++) {
+      const v = basis[k];
+      csrApply(n, rowPtr, col, val, v, w);
+      let a = 0;
+      for (let i = 0; i < n; i++) a += v[i] * w[i];
+      alpha[k] = a;
+      // Full reorthogonalisation against every basis vector so far (classical Gram–Schmidt).
+      for (let j = 0; j <= k; j++) {
+        const b = basis[j];
+        let d = 0;
+        for (let i = 0; i < n; i++) d += b[i] * w[i];
+        for (let i = 0; i < n; i++) w[i] -= d * b[i];
+      }
+      let norm = 0;
+      for (let i = 0; i < n; i++) norm += w[i] * w[i];
+      norm = Math.sqrt(norm);
+      beta[k] = norm;
+      if (!(norm > 1e-14 * Math.abs(a)) || k + 1 === m) {
+        k++;
+        break;
+      }
+      const next = basis[k + 1];
+      for (let i = 0; i < n; i++) next[i] = w[i] / norm;
+    }
+    work += k * perMatvec + k * k * n + k * n;
+    const T = new Float64Array(k * k);
+    for (let i = 0; i < k; i++) {
+      T[i * k + i] = alpha[i];
+      if (i + 1 < k) T[i * k + i + 1] = T[(i + 1) * k + i] = beta[i];
+    }
+    const { values, vectors } = jacobiEigen(k, T);
+    let top = 0;
+    for (let i = 1; i < k; i++) if (values[i] > values[top]) top = i;
+    const y = new Float64Array(n);
+    for (let j = 0; j < k; j++) {
+      const c = vectors[j * k + top];
+      const b = basis[j];
+      for (let i = 0; i < n; i++) y[i] += c * b[i];
+    }
+    let sum = 0;
+    for (let i = 0; i < n; i++) sum += y[i];
+    if (sum < 0) for (let i = 0; i < n; i++) y[i] = -y[i];
+    bracketOf(y);
+    if (best.upper - best.lower <= tol * best.upper) break;
+    let norm = 0;
+    for (let i = 0; i < n; i++) norm += y[i] * y[i];
+    norm = Math.sqrt(norm);
+    x = y.map((v) => v / norm);
+  }
+  return { ...best, work };
+}
+
+/** Relative width of the Perron-root bracket below which a reversible chain's Rényi rate is published. */
+export const REVERSIBLE_BRACKET_TOLERANCE = 1e-10;
+
+/**
+ * The Rényi entropy rate of order α of a reversible chain (for example a random walk on an
+ * undirected weighted graph), from the symmetric matrix Sᵢⱼ = (Pᵢⱼ Pⱼᵢ)^{α/2}: reversibility
+ * μᵢPᵢⱼ = μⱼPⱼᵢ makes S = D^{α/2}[Pᵢⱼ^α]D^{−α/2} with D = diag(μ), so both have the same Perron root
+ * λ(α), and the rate is (1/(1−α)) log λ(α) (Rached, Alajaji and Campbell 2001). S is scaled by its
+ * largest entry (so large α does not underflow; ρ(S) is at least that entry) and its Perron root
+ * found by restarted Lanczos with a Rayleigh/Collatz–Wielandt bracket (lanczosPerron). The figure
+ * is returned only when the bracket is relatively narrower than 1e-10 (REVERSIBLE_BRACKET_TOLERANCE,
+ * an error of at most 1e-10/|1 − α| nats in the rate) within the work budget
+ * (default PERRON_WORK_BUDGET); `bracketBits` carries the bracket as a rate interval.
+ * O((n + nnz)·24 + 24²·n) per restart. Throws EngineNumericError if α is not a finite number > 0 and
+ * ≠ 1, P is malformed, not structurally symmetric (so it cannot be reversible) or reducible, or the
+ * bracket does not narrow within the budget (the message says so). Reversibility itself is not
+ * checked here: verification recomputes the rate from [Pᵢⱼ^α] directly.
+ */
+export function reversibleRenyiEntropyRate(P: DenseMatrix | SparseMatrix, alpha: number, opts: { workBudget?: number } = {}): Rate & { bracketBits: [number, number] } {
+  if (!Number.isFinite(alpha) || !(alpha > 0) || alpha === 1) {
+    throw new EngineNumericError(`reversibleRenyiEntropyRate: order α must be a finite number > 0 other than 1, got ${alpha}`);
+  }
+  const G = logGraph(P);
+  const n = G.n;
+  const cls = classify({ n, rowPtr: G.rowPtr, col: G.col, val: G.prob });
+  if (!cls.irreducible) throw new EngineNumericError(`reversibleRenyiEntropyRate: chain is reducible (${cls.classes.length} classes)`);
+  const T = transposeSparse({ n, rowPtr: G.rowPtr, col: G.col, val: G.logw });
+  for (let i = 0; i <= n; i++) if (T.rowPtr[i] !== G.rowPtr[i]) throw new EngineNumericError("reversibleRenyiEntropyRate: the transition graph is not symmetric, so the chain is not reversible");
+  const logS = new Float64Array(G.logw.length);
+  let top = -Infinity;
+  for (let p = 0; p < logS.length; p++) {
+    if (T.col[p] !== G.col[p]) throw new EngineNumericError("reversibleRenyiEntropyRate: the transition graph is not symmetric, so the chain is not reversible");
+    logS[p] = 0.5 * alpha * (G.logw[p] + T.val[p]);
+    if (logS[p] > top) top = logS[p];
+  }
+  const val = Float64Array.from(logS, (l) => Math.exp(l - top));
+  const budget = checkBudget(opts.workBudget);
+  const tol = REVERSIBLE_BRACKET_TOLERANCE;
+  const b = n === 1 ? { lower: val[0], upper: val[0], vector: new Float64Array([1]), work: 0 } : lanczosPerron(n, G.rowPtr, G.col, val, tol, budget);
+  if (!(b.upper - b.lower <= tol * b.upper) || !(b.lower > 0)) {
+    throw new EngineNumericError(
+      `reversibleRenyiEntropyRate: the work budget (${budget.toExponential(1)} entry operations) was spent before the Perron-root bracket narrowed to ${tol} (it reached ${((b.upper - b.lower) / b.upper).toExponential(1)})`,
+    );
+  }
+  const toBits = (root: number) => {
+    const nats = (top + Math.log(root)) / (1 - alpha);
+    return nats / LN2;
+  };
+  const mid = 0.5 * (b.lower + b.upper);
+  let nats = (top + Math.log(mid)) / (1 - alpha);
+  if (!(nats > 0)) nats = 0;
+  const [x, y] = [toBits(b.lower), toBits(b.upper)];
+  return { bits: nats / LN2, nats, bracketBits: x <= y ? [x, y] : [y, x] };
 }

@@ -269,10 +269,11 @@ function vCycle(L: Level, mu: Float64Array): void {
 /**
  * GTH state reduction on sparse storage, eliminating states n−1, n−2, …, 1 (Grassmann, Taksar and
  * Heyman 1985). Cheap when elimination creates little fill (rings, paths, banded chains); gives up
- * and returns null once more than maxFill entries would be stored, or a pivot vanishes.
- * O(Σ_k |in(k)|·|out(k)|) time.
+ * and returns null once more than maxFill entries would be stored, once maxWork entry updates have
+ * been made (on a well-connected chain the fill, and the cost of each elimination, grows fast long
+ * before maxFill is reached), or when a pivot vanishes. O(min(maxWork, Σ_k |in(k)|·|out(k)|)) time.
  */
-function sparseGTH(P: SparseMatrix, maxFill: number): Float64Array | null {
+function sparseGTH(P: SparseMatrix, maxFill: number, maxWork: number): Float64Array | null {
   const n = P.n;
   const rows: Map<number, number>[] = new Array(n);
   const ins: Set<number>[] = new Array(n);
@@ -301,8 +302,11 @@ function sparseGTH(P: SparseMatrix, maxFill: number): Float64Array | null {
   const savedEnd = new Int32Array(n);
   const savedI: number[] = [];
   const savedF: number[] = [];
+  let work = 0;
   for (let k = n - 1; k >= 1; k--) {
     const rk = rows[k];
+    work += ins[k].size * rk.size;
+    if (work > maxWork) return null;
     let s = 0;
     for (const v of rk.values()) s += v;
     if (!(s > 0)) return null;
@@ -349,6 +353,8 @@ function sparseGTH(P: SparseMatrix, maxFill: number): Float64Array | null {
 /** Result of the iterative solver. */
 export interface IterativeStationary {
   mu: Float64Array;
+  /** Entry operations spent (each sweep counts 2·(n + nnz), each residual n + nnz). */
+  work: number;
   /** ‖μP − μ‖₁ of the returned (normalised) μ. */
   residual: number;
   /** Symmetric Gauss–Seidel iterations (one forward and one backward sweep each). */
@@ -363,14 +369,16 @@ export interface IterativeStationary {
  * The divisor is the off-diagonal row sum rather than 1 − P_jj (no cancellation for lazy states).
  * Unlike power iteration it does not need aperiodicity (a periodic ring converges in one sweep in
  * the direction of its flow) and mass carried along a ring in either direction is propagated the
- * whole way in one sweep. Stops when ‖μP − μ‖₁ ≤ tolerance (default 1e-12) or after maxIterations
- * (default 2,000); `converged` tells which. O(nnz) per iteration plus one transpose.
+ * whole way in one sweep. Stops when ‖μP − μ‖₁ ≤ tolerance (default 1e-12), after maxIterations
+ * (default 2,000) or once `workBudget` entry operations (default unlimited; a sweep costs about
+ * 3·(n + nnz) with its residual) are spent; `converged` tells whether the tolerance was met.
+ * O(nnz) per iteration plus one transpose; the one-off sparse GTH attempt is capped at 8·(n + nnz).
  * Throws EngineNumericError on a malformed matrix, an absorbing state in a chain of more than one
  * state (reducible), or a bad initial vector.
  */
 export function stationaryIterative(
   P: SparseMatrix,
-  opts: { tolerance?: number; maxIterations?: number; initial?: Float64Array } = {},
+  opts: { tolerance?: number; maxIterations?: number; initial?: Float64Array; workBudget?: number } = {},
 ): IterativeStationary {
   checkSparseNonnegative(P, "transition matrix");
   const n = P.n;
@@ -378,7 +386,9 @@ export function stationaryIterative(
   const maxIterations = opts.maxIterations ?? 2000;
   if (!(tolerance > 0) || !Number.isFinite(tolerance)) throw new EngineNumericError(`stationaryIterative: tolerance must be > 0, got ${tolerance}`);
   if (!Number.isInteger(maxIterations) || maxIterations < 0) throw new EngineNumericError(`stationaryIterative: maxIterations must be an integer ≥ 0`);
-  if (n === 1) return { mu: new Float64Array([1]), residual: 0, iterations: 0, converged: true };
+  const workBudget = opts.workBudget ?? Infinity;
+  if (!(workBudget > 0)) throw new EngineNumericError(`stationaryIterative: workBudget must be > 0, got ${workBudget}`);
+  if (n === 1) return { mu: new Float64Array([1]), residual: 0, iterations: 0, converged: true, work: 0 };
 
   // Off-diagonal row sums (exit rates) and the transpose without its diagonal, for column access.
   const out = new Float64Array(n);
@@ -413,13 +423,17 @@ export function stationaryIterative(
   };
   const fine: Level = { T, out };
 
+  const size = n + P.rowPtr[n];
   let residual = stationaryResidual(P, mu);
+  let work = size;
   let iterations = 0;
   let multilevel = false;
   let triedDirect = false;
-  while (residual > tolerance && iterations < maxIterations) {
+  // A V-cycle costs about twice a sweep pair (the coarse levels halve in size).
+  while (residual > tolerance && iterations < maxIterations && work + (multilevel ? 6 : 3) * size <= workBudget) {
     if (multilevel) vCycle(fine, mu);
     else symmetricGaussSeidel(fine, mu);
+    work += (multilevel ? 6 : 3) * size;
     normalise();
     iterations++;
     const previous = residual;
@@ -428,9 +442,12 @@ export function stationaryIterative(
     // fill under elimination, so try sparse GTH once; if the fill grows too large, switch to
     // multilevel aggregation instead.
     if (!multilevel && iterations >= 2 && residual > 0.3 * previous && residual > tolerance) {
-      if (!triedDirect) {
+      // Only sparse chains with few successors per state (rings, paths, banded) have little fill;
+      // on a well-connected chain building the elimination maps alone would dominate the solve.
+      if (!triedDirect && P.rowPtr[n] <= 4 * n) {
         triedDirect = true;
-        const direct = sparseGTH(P, 4 * P.rowPtr[n] + 16 * n);
+        const direct = sparseGTH(P, 4 * P.rowPtr[n] + 16 * n, 8 * size);
+        work += 8 * size;
         if (direct) {
           const r = stationaryResidual(P, direct);
           if (r < residual) {
@@ -443,5 +460,5 @@ export function stationaryIterative(
       if (n > COARSEST) multilevel = true;
     }
   }
-  return { mu, residual, iterations, converged: residual <= tolerance };
+  return { mu, residual, iterations, converged: residual <= tolerance, work };
 }

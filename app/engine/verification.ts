@@ -78,6 +78,8 @@ const ITERATIVE_CHECK_TOLERANCE: Tolerance = { abs: 1e-8, rel: 1e-8 };
 export const RESIDUAL_LIMIT = 1e-9;
 /** Rényi order used for the min-entropy limit bound. */
 export const LIMIT_BOUND_ORDER = 32;
+/** Work budget (entry operations) of one verification bracket of a Perron root. */
+export const BRACKET_WORK_BUDGET = 6e7;
 /** Alphabet up to which the i.i.d. general-formula route builds the matrix explicitly. */
 const IID_MATRIX_LIMIT = 1024;
 
@@ -135,14 +137,15 @@ type Apply = (x: Float64Array, y: Float64Array) => void;
  * A bracket [ln lo, ln hi] of the Perron root of a nonnegative irreducible operator by power
  * iteration on I + A/ρ̂ (ρ̂ the running estimate, so periodic matrices converge), bounded by the
  * Collatz–Wielandt inequalities min (Ax)ᵢ/xᵢ ≤ ρ ≤ max (Ax)ᵢ/xᵢ, which hold for every positive x.
- * O(work) per iteration, at most ~3e8/work iterations.
+ * Stopping early only widens the bracket (it stays valid), so the iteration is capped by a work
+ * budget: at most BRACKET_WORK_BUDGET/work iterations (at least 20). O(work) per iteration.
  */
 function perronLogBracket(n: number, apply: Apply, work: number): { lower: number; upper: number } {
   const x = new Float64Array(n).fill(1);
   const y = new Float64Array(n);
   let lo = 0;
   let hi = Infinity;
-  const maxIter = Math.max(100, Math.min(20_000, Math.floor(3e8 / Math.max(1, work))));
+  const maxIter = Math.max(20, Math.min(20_000, Math.floor(BRACKET_WORK_BUDGET / Math.max(1, work))));
   for (let it = 0; it < maxIter; it++) {
     apply(x, y);
     let l = Infinity;

@@ -1,0 +1,472 @@
+/**
+ * Library search: a minisearch index over the models (title, summary, tags, family and its
+ * label, and the state/alphabet/node names of each model's latest edition) with facet filters.
+ *
+ * The index lives in memory, one per server process, built on first use. App servers are
+ * stateless and several may run against one database, so before answering, a search checks at
+ * most once a second a cheap "library version" (edition and model counts and their newest
+ * timestamps) and rebuilds when it changed; the publishing path may also call
+ * `invalidateSearchIndex()` to have the next search rebuild at once. See docs/decisions/0005-search.md.
+ */
+import MiniSearch, { type SearchOptions } from "minisearch";
+import { sql } from "drizzle-orm";
+import { familyLabels } from "~/families";
+import { DEFAULT_PAGE_SIZE, MAX_PAGE_SIZE, STATE_RANGES, defaultDirection, type SearchQuery, type SearchSort } from "~/search-params";
+import { FAMILIES } from "~/engine";
+import { db } from "./db.server";
+import type { LibraryRow } from "./library.server";
+
+export type { SearchQuery } from "~/search-params";
+
+export interface SearchRow extends LibraryRow {
+  /** The relevance score of a text query; null when there is no query text. */
+  score: number | null;
+}
+
+export interface FacetCount {
+  value: string;
+  count: number;
+}
+
+export interface SearchFacets {
+  family: FacetCount[];
+  tags: FacetCount[];
+  states: { min: number | null; max: number | null };
+  rate: { min: number | null; max: number | null };
+  /** Counts per state-count range (STATE_RANGES), under the other active filters. */
+  stateRanges: { value: string; min: number; max: number | null; count: number }[];
+  minEntropy: { with: number; without: number };
+}
+
+export interface SearchResult {
+  total: number;
+  page: number;
+  pageSize: number;
+  sort: SearchSort;
+  dir: "asc" | "desc";
+  rows: SearchRow[];
+  facets: SearchFacets;
+}
+
+export interface SearchIndexOptions {
+  /** Include generated scale-test models (models.is_synthetic); the library never does. */
+  includeSynthetic?: boolean;
+}
+
+/** How many state/alphabet/node names of one edition are indexed (a large graph has many). */
+const MAX_NAMES = 200;
+/** How many tag facet values are returned, most frequent first. */
+const MAX_TAG_FACETS = 60;
+const VERSION_CHECK_MS = 1000;
+/** Text matches kept per index, by query text: typing and facet clicks repeat the same words. */
+const TEXT_CACHE_SIZE = 256;
+
+/** Words too common to tell models apart; left out of the index and of queries. */
+const STOP_WORDS = new Set(["a", "an", "and", "as", "at", "by", "for", "from", "in", "into", "is", "it", "its", "of", "on", "or", "the", "to", "with"]);
+
+/** Lower-cases a term and drops stop words (the same rule for documents and queries). */
+export function processTerm(term: string): string | null {
+  const t = term.toLowerCase();
+  return STOP_WORDS.has(t) ? null : t;
+}
+
+/** Field boosts: a title hit outranks the same word in a summary. */
+const BOOST = { title: 3, tags: 2, family: 1.5, names: 1, summary: 1 };
+/**
+ * Typo allowance 0.2 of a term's length (one edit from 4 letters, two from 8). Shorter terms get
+ * none: one edit in a 3-letter word matches a large part of the vocabulary and mostly adds noise.
+ * Prefixes match from 2 letters, so a word is found while it is being typed.
+ */
+const TEXT_OPTIONS: SearchOptions = {
+  fuzzy: (term) => (term.length >= 4 ? 0.2 : false),
+  prefix: (term) => term.length >= 2,
+  boost: BOOST,
+};
+
+interface Doc {
+  slug: string;
+  title: string;
+  family: string;
+  summary: string;
+  tags: string[];
+  tagKeys: string[];
+  /** Indices into BuiltIndex.tagValues, one per distinct tag key. */
+  tagIds: number[];
+  latestEdition: number;
+  states: number | null;
+  entropyRateBits: number | null;
+  minEntropyRateBits: number | null;
+  updatedAt: Date;
+  names: string;
+  titleRank: number;
+  updatedRank: number;
+}
+
+interface BuiltIndex {
+  version: string;
+  mini: MiniSearch;
+  docs: Map<string, Doc>;
+  all: Doc[];
+  /** The display form of each tag (the first spelling met), by tag id. */
+  tagValues: string[];
+  textCache: Map<string, Candidate[]>;
+  builtInMs: number;
+}
+
+interface IndexSlot {
+  index?: BuiltIndex;
+  building?: Promise<BuiltIndex>;
+  checkedAt: number;
+  stale: boolean;
+}
+
+const slots = new Map<boolean, IndexSlot>();
+
+function slot(includeSynthetic: boolean): IndexSlot {
+  let s = slots.get(includeSynthetic);
+  if (!s) {
+    s = { checkedAt: 0, stale: true };
+    slots.set(includeSynthetic, s);
+  }
+  return s;
+}
+
+/** Marks every index stale: the next search rebuilds it (call after publishing or retracting). */
+export function invalidateSearchIndex(): void {
+  for (const s of slots.values()) s.stale = true;
+}
+
+/** A cheap fingerprint of the library's content; changes with any publish, retraction or model edit. */
+async function libraryVersion(): Promise<string> {
+  const result = await db().execute(sql`
+    select (select count(*) from editions)::int as editions,
+           (select max(published_at) from editions) as published,
+           (select max(retracted_at) from editions) as retracted,
+           (select count(*) from models)::int as models,
+           (select count(*) from models where is_synthetic)::int as synthetic,
+           (select max(updated_at) from models) as updated`);
+  const row = result.rows[0] as Record<string, unknown>;
+  const stamp = (v: unknown) => (v instanceof Date ? v.toISOString() : String(v ?? ""));
+  return [row.editions, stamp(row.published), stamp(row.retracted), row.models, row.synthetic, stamp(row.updated)].join("|");
+}
+
+const numberOrNull = (v: unknown): number | null => {
+  if (v === null || v === undefined) return null;
+  const n = Number(v);
+  return Number.isFinite(n) ? n : null;
+};
+
+/** Loads every model with its latest edition (newest not retracted, else newest) and indexes it. */
+async function buildIndex(includeSynthetic: boolean): Promise<BuiltIndex> {
+  const started = performance.now();
+  const version = await libraryVersion();
+  const result = await db().execute(sql`
+    select distinct on (m.id)
+      m.slug, m.title, m.family::text as family, m.summary, m.tags, m.updated_at,
+      e.number,
+      (e.figures -> 'entropyRate' ->> 'bits')::float8 as rate,
+      (e.figures -> 'minEntropyRate' ->> 'bits')::float8 as min_rate,
+      case when jsonb_typeof(e.figures -> 'states') = 'array' then jsonb_array_length(e.figures -> 'states') end as states,
+      (select string_agg(v, ' ') from (
+         select jsonb_array_elements_text(
+           case when jsonb_typeof(e.params -> 'alphabet') = 'array' then e.params -> 'alphabet' else '[]'::jsonb end ||
+           case when jsonb_typeof(e.params -> 'states') = 'array' then e.params -> 'states' else '[]'::jsonb end ||
+           case when jsonb_typeof(e.params -> 'nodes') = 'array' then e.params -> 'nodes' else '[]'::jsonb end
+         ) as v limit ${MAX_NAMES}) names) as names
+    from models m
+    join editions e on e.model_id = m.id
+    where ${includeSynthetic ? sql`true` : sql`not m.is_synthetic`}
+    order by m.id, (e.retracted_at is null) desc, e.number desc`);
+
+  const all: Doc[] = (result.rows as Record<string, unknown>[]).map((r) => {
+    const tags = (r.tags as string[] | null) ?? [];
+    return {
+      slug: String(r.slug),
+      title: String(r.title),
+      family: String(r.family),
+      summary: String(r.summary),
+      tags,
+      tagKeys: tags.map(tagKey),
+      latestEdition: Number(r.number),
+      states: numberOrNull(r.states),
+      entropyRateBits: numberOrNull(r.rate),
+      minEntropyRateBits: numberOrNull(r.min_rate),
+      updatedAt: r.updated_at instanceof Date ? r.updated_at : new Date(String(r.updated_at)),
+      names: typeof r.names === "string" ? r.names : "",
+      titleRank: 0,
+      updatedRank: 0,
+      tagIds: [],
+    };
+  });
+  const tagIds = new Map<string, number>();
+  const tagValues: string[] = [];
+  for (const d of all) {
+    const ids = new Set<number>();
+    d.tags.forEach((t, i) => {
+      let id = tagIds.get(d.tagKeys[i]);
+      if (id === undefined) {
+        id = tagValues.length;
+        tagIds.set(d.tagKeys[i], id);
+        tagValues.push(t);
+      }
+      ids.add(id);
+    });
+    d.tagIds = [...ids];
+  }
+  // Sorting by title happens on every query; rank once with a collator instead of comparing strings.
+  const collator = new Intl.Collator("en", { sensitivity: "base", numeric: true });
+  [...all]
+    .sort((a, b) => collator.compare(a.title, b.title) || (a.slug < b.slug ? -1 : 1))
+    .forEach((d, i) => (d.titleRank = i));
+  [...all].sort((a, b) => a.updatedAt.getTime() - b.updatedAt.getTime() || a.titleRank - b.titleRank).forEach((d, i) => (d.updatedRank = i));
+
+  const mini = new MiniSearch<{ id: string; title: string; summary: string; tags: string; family: string; names: string }>({
+    fields: ["title", "summary", "tags", "family", "names"],
+    storeFields: [],
+    processTerm,
+    searchOptions: TEXT_OPTIONS,
+  });
+  mini.addAll(
+    all.map((d) => ({
+      id: d.slug,
+      title: d.title,
+      summary: d.summary,
+      tags: d.tags.join(" "),
+      family: `${d.family} ${familyLabels[d.family] ?? ""}`,
+      names: d.names,
+    })),
+  );
+  return { version, mini, docs: new Map(all.map((d) => [d.slug, d])), all, tagValues, textCache: new Map(), builtInMs: performance.now() - started };
+}
+
+/** The current index for these options, built or refreshed as needed. */
+async function currentIndex(options: SearchIndexOptions = {}): Promise<BuiltIndex> {
+  const includeSynthetic = options.includeSynthetic ?? false;
+  const s = slot(includeSynthetic);
+  if (s.building) return s.building;
+  const now = Date.now();
+  if (s.index && !s.stale) {
+    if (now - s.checkedAt < VERSION_CHECK_MS) return s.index;
+    s.checkedAt = now;
+    if ((await libraryVersion()) === s.index.version) return s.index;
+  }
+  if (s.building) return s.building;
+  s.building = buildIndex(includeSynthetic).finally(() => (s.building = undefined));
+  const built = await s.building;
+  s.index = built;
+  s.stale = false;
+  s.checkedAt = Date.now();
+  return built;
+}
+
+/** Builds the index afresh now (benchmarks, warm-up); returns its size and build time. */
+export async function rebuildSearchIndex(options: SearchIndexOptions = {}): Promise<{ documents: number; ms: number }> {
+  const s = slot(options.includeSynthetic ?? false);
+  s.stale = true;
+  const built = await currentIndex(options);
+  return { documents: built.all.length, ms: built.builtInMs };
+}
+
+/** Tag comparison ignores case and surrounding spaces. */
+export function tagKey(tag: string): string {
+  return tag.trim().toLowerCase();
+}
+
+interface Candidate {
+  doc: Doc;
+  score: number | null;
+}
+
+/**
+ * Text matches for `q`: every word must match (as a word, a prefix or within the typo allowance);
+ * when no model matches all the words, models matching any of them are returned instead.
+ */
+function textMatches(index: BuiltIndex, q: string): Candidate[] {
+  const key = q.toLowerCase();
+  const cached = index.textCache.get(key);
+  if (cached) {
+    index.textCache.delete(key); // least recently used goes first
+    index.textCache.set(key, cached);
+    return cached;
+  }
+  const found = findText(index, q);
+  index.textCache.set(key, found);
+  if (index.textCache.size > TEXT_CACHE_SIZE) index.textCache.delete(index.textCache.keys().next().value!);
+  return found;
+}
+
+/** Clears the cached text matches (the benchmark times uncached searches with it). */
+export function clearSearchTextCache(): void {
+  for (const s of slots.values()) s.index?.textCache.clear();
+}
+
+function findText(index: BuiltIndex, q: string): Candidate[] {
+  if (q === "") return index.all.map((doc) => ({ doc, score: null }));
+  let hits = index.mini.search(q, { combineWith: "AND" });
+  if (hits.length === 0) hits = index.mini.search(q, { combineWith: "OR" });
+  const out: Candidate[] = [];
+  for (const h of hits) {
+    const doc = index.docs.get(String(h.id));
+    if (doc) out.push({ doc, score: h.score });
+  }
+  return out;
+}
+
+type Filter = (d: Doc) => boolean;
+
+/** The active filters of a query, by facet (a facet's own filter is left out of its counts). */
+export function facetFilters(query: SearchQuery): Record<"family" | "states" | "rate" | "minEntropy" | "tags", Filter | null> {
+  const families = query.family?.length ? new Set<string>(query.family) : null;
+  const tagKeys = query.tags?.length ? query.tags.map(tagKey) : null;
+  const { statesMin, statesMax, rateMin, rateMax, hasMinEntropy } = query;
+  return {
+    family: families ? (d) => families.has(d.family) : null,
+    states:
+      statesMin !== undefined || statesMax !== undefined
+        ? (d) => d.states !== null && (statesMin === undefined || d.states >= statesMin) && (statesMax === undefined || d.states <= statesMax)
+        : null,
+    rate:
+      rateMin !== undefined || rateMax !== undefined
+        ? (d) =>
+            d.entropyRateBits !== null &&
+            (rateMin === undefined || d.entropyRateBits >= rateMin - 1e-12) &&
+            (rateMax === undefined || d.entropyRateBits <= rateMax + 1e-12)
+        : null,
+    minEntropy: hasMinEntropy === undefined ? null : (d) => (d.minEntropyRateBits !== null) === hasMinEntropy,
+    tags: tagKeys ? (d) => tagKeys.every((t) => d.tagKeys.includes(t)) : null,
+  };
+}
+
+function compareNullable(a: number | null, b: number | null, sign: number): number {
+  if (a === null && b === null) return 0;
+  if (a === null) return 1; // missing figures last in either direction
+  if (b === null) return -1;
+  return (a - b) * sign;
+}
+
+function sorter(sort: SearchSort, dir: "asc" | "desc", hasText: boolean): (a: Candidate, b: Candidate) => number {
+  const sign = dir === "asc" ? 1 : -1;
+  const byTitle = (a: Candidate, b: Candidate) => a.doc.titleRank - b.doc.titleRank;
+  switch (sort) {
+    case "title":
+      return (a, b) => byTitle(a, b) * sign;
+    case "rate":
+      return (a, b) => compareNullable(a.doc.entropyRateBits, b.doc.entropyRateBits, sign) || byTitle(a, b);
+    case "states":
+      return (a, b) => compareNullable(a.doc.states, b.doc.states, sign) || byTitle(a, b);
+    case "updated":
+      return (a, b) => (a.doc.updatedRank - b.doc.updatedRank) * sign;
+    case "relevance":
+      // Without query text every score is equal: the most recently updated models come first.
+      if (!hasText) return (a, b) => (a.doc.updatedRank - b.doc.updatedRank) * sign;
+      return (a, b) => ((a.score ?? 0) - (b.score ?? 0)) * sign || byTitle(a, b);
+  }
+}
+
+function toRow(c: Candidate): SearchRow {
+  const d = c.doc;
+  return {
+    slug: d.slug,
+    title: d.title,
+    family: d.family,
+    summary: d.summary,
+    tags: d.tags,
+    latestEdition: d.latestEdition,
+    states: d.states,
+    entropyRateBits: d.entropyRateBits,
+    minEntropyRateBits: d.minEntropyRateBits,
+    updatedAt: d.updatedAt,
+    score: c.score,
+  };
+}
+
+/**
+ * Searches the library: text matching (fuzzy 0.2, prefix, title boosted), facet filters, sort
+ * and paging, with facet counts that reflect the other active filters. Cost: one text search
+ * plus a pass over its matches; the index is built on first use and refreshed as described above.
+ */
+export async function searchLibrary(query: SearchQuery, options: SearchIndexOptions = {}): Promise<SearchResult> {
+  const index = await currentIndex(options);
+  const q = (query.q ?? "").trim();
+  const sort: SearchSort = query.sort ?? "relevance";
+  const dir = query.dir ?? defaultDirection(sort);
+  const pageSize = Math.min(MAX_PAGE_SIZE, Math.max(1, Math.floor(query.pageSize ?? DEFAULT_PAGE_SIZE)));
+  const page = Math.max(1, Math.floor(query.page ?? 1));
+
+  const filters = facetFilters(query);
+  const keys = Object.keys(filters) as (keyof typeof filters)[];
+  const active = keys.filter((k) => filters[k] !== null);
+
+  const familyCounts = new Map<string, number>(FAMILIES.map((f) => [f, 0]));
+  const tagCounts = new Int32Array(index.tagValues.length);
+  const rangeCounts = STATE_RANGES.map(() => 0);
+  const minEntropy = { with: 0, without: 0 };
+  let statesMin: number | null = null;
+  let statesMax: number | null = null;
+  let rateMin: number | null = null;
+  let rateMax: number | null = null;
+  const rows: Candidate[] = [];
+  const activeFilters = active.map((k) => filters[k]!);
+
+  for (const c of textMatches(index, q)) {
+    const d = c.doc;
+    // Which active filters reject this model: none → a result; exactly one → it still counts
+    // in that facet (a facet's counts reflect the other filters, not its own).
+    let failed: (typeof active)[number] | null = null;
+    let failures = 0;
+    for (let i = 0; i < activeFilters.length && failures < 2; i++) {
+      if (!activeFilters[i](d)) {
+        failures++;
+        failed = active[i];
+      }
+    }
+    if (failures > 1) continue;
+    const all = failures === 0;
+    if (all || failed === "family") familyCounts.set(d.family, (familyCounts.get(d.family) ?? 0) + 1);
+    if ((all || failed === "states") && d.states !== null) {
+      const n = d.states;
+      statesMin = statesMin === null ? n : Math.min(statesMin, n);
+      statesMax = statesMax === null ? n : Math.max(statesMax, n);
+      for (let i = 0; i < STATE_RANGES.length; i++) {
+        const r = STATE_RANGES[i];
+        if (n >= r.min && (r.max === null || n <= r.max)) rangeCounts[i]++;
+      }
+    }
+    if ((all || failed === "rate") && d.entropyRateBits !== null) {
+      rateMin = rateMin === null ? d.entropyRateBits : Math.min(rateMin, d.entropyRateBits);
+      rateMax = rateMax === null ? d.entropyRateBits : Math.max(rateMax, d.entropyRateBits);
+    }
+    if (all || failed === "minEntropy") {
+      if (d.minEntropyRateBits !== null) minEntropy.with++;
+      else minEntropy.without++;
+    }
+    if (!all) continue;
+    // Tags narrow the results (every tag must match), so their counts are over the results.
+    for (const id of d.tagIds) tagCounts[id]++;
+    rows.push(c);
+  }
+
+  const tagFacets: FacetCount[] = [];
+  tagCounts.forEach((count, id) => {
+    if (count > 0) tagFacets.push({ value: index.tagValues[id], count });
+  });
+
+  rows.sort(sorter(sort, dir, q !== ""));
+  const start = (page - 1) * pageSize;
+  return {
+    total: rows.length,
+    page,
+    pageSize,
+    sort,
+    dir,
+    rows: rows.slice(start, start + pageSize).map(toRow),
+    facets: {
+      family: [...familyCounts].map(([value, count]) => ({ value, count })),
+      tags: tagFacets.sort((a, b) => b.count - a.count || (a.value < b.value ? -1 : a.value > b.value ? 1 : 0)).slice(0, MAX_TAG_FACETS),
+      states: { min: statesMin, max: statesMax },
+      rate: { min: rateMin, max: rateMax },
+      stateRanges: STATE_RANGES.map((r, i) => ({ ...r, count: rangeCounts[i] })),
+      minEntropy,
+    },
+  };
+}
