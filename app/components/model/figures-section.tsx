@@ -24,7 +24,8 @@ export function FiguresSection({ figures, verification }: { figures: ComputeResu
   const u = unitLabel(unit);
   const hidden = figures.family === "hidden";
   const mu = figures.stationary;
-  const maxMu = mu ? Math.max(...mu) : 0;
+  // Probabilities share the matrices' absolute 0–1 shading scale.
+  const maxMu = 1;
   const showSymbolLaw = figures.symbolDistribution && figures.states.length !== figures.symbols.length;
   return (
     <div className="grid gap-4 md:grid-cols-2">
@@ -107,7 +108,7 @@ export function FiguresSection({ figures, verification }: { figures: ComputeResu
         <p className="mt-2 text-sm">
           {figures.irreducible ? "Irreducible" : "Reducible"}; {figures.period === null ? "period given per class" : figures.period === 1 ? "aperiodic" : `period ${figures.period}`}.
         </p>
-        <VerificationStatus checks={[]} label="The class structure" />
+        <VerificationStatus checks={[]} label="The class structure" exact="is exact: it is read off the graph of positive transitions" />
       </Figure>
 
       <div className="md:col-span-2">
@@ -154,7 +155,7 @@ export function FiguresSection({ figures, verification }: { figures: ComputeResu
                 <p className="mt-2 text-xs text-ink-soft">
                   Solver: {figures.solver.method}; residual ‖μP − μ‖₁ = <span className="font-mono">{formatSmall(figures.solver.residual)}</span>.
                 </p>
-                <VerificationStatus checks={[...checksFor(verification, "stationary"), ...checksFor(verification, "solver")]} label="The stationary distribution" />
+                <VerificationStatus checks={[...checksFor(verification, "stationary"), ...checksFor(verification, "solver")]} label="The stationary distribution" exact={figures.family === "iid" ? "is needed: for an i.i.d. source it is p itself" : undefined} />
               </div>
             </div>
           ) : (

@@ -116,7 +116,8 @@ export function MatrixTable({
 }
 
 function VectorTable({ caption, head, labels, values, valueHead }: { caption: string; head: string; labels: string[]; values: number[]; valueHead: string }) {
-  const max = Math.max(...values, 0);
+  // Probabilities are shaded on the same absolute 0–1 scale as the matrices.
+  const max = 1;
   return (
     <figure className="mp-matrix">
       <div className="mp-scroll card" tabIndex={0} role="region" aria-label={`${caption} (scrolls)`}>

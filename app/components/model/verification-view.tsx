@@ -55,9 +55,13 @@ const relationWords: Record<VerificationCheck["relation"], string> = {
 };
 
 /** Status line plus the disclosure of every check behind it. */
-export function VerificationStatus({ checks, label }: { checks: VerificationCheck[]; label: string }) {
+export function VerificationStatus({ checks, label, exact }: { checks: VerificationCheck[]; label: string; exact?: string }) {
   if (checks.length === 0) {
-    return <p className="mp-status text-xs text-ink-soft">No second route: {lowerFirst(label)} is exact by construction (a graph algorithm), not a rounded figure.</p>;
+    return (
+      <p className="mp-status text-xs text-ink-soft">
+        No second route: {lowerFirst(label)} {exact ?? "is not a rounded figure"}.
+      </p>
+    );
   }
   const s = summary(checks);
   return (
