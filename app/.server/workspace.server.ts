@@ -5,7 +5,7 @@
  * and a save against a newer revision is refused (decision note 0008).
  */
 import { and, desc, eq, sql } from "drizzle-orm";
-import { parseModel, type Family, type InputIssue, type ModelParams } from "~/engine";
+import { computeFigures, EngineInputError, parseModel, type Family, type InputIssue, type ModelParams } from "~/engine";
 import { citationKey } from "~/citations";
 import { db } from "./db.server";
 import { getEdition, getLatestEdition } from "./library.server";
@@ -25,7 +25,10 @@ export interface WorkspaceListItem {
   updatedAt: Date;
   /** `ergoshelf:<slug>@<n>` when cloned from an edition, else null. */
   source: string | null;
+  /** The edition's permanent page, e.g. `/library/<slug>/e/<n>`. */
   sourcePath: string | null;
+  /** The model the edition belongs to: its title and page. */
+  sourceModel: { slug: string; title: string; path: string; edition: number } | null;
 }
 
 export interface WorkspaceRevision {
@@ -104,16 +107,18 @@ const listColumns = {
   revision: workspaceItems.revision,
   updatedAt: workspaceItems.updatedAt,
   slug: models.slug,
+  modelTitle: models.title,
   editionNumber: editions.number,
 };
 
-function withSource<T extends { slug: string | null; editionNumber: number | null }>(row: T) {
-  const { slug, editionNumber, ...rest } = row;
+function withSource<T extends { slug: string | null; modelTitle: string | null; editionNumber: number | null }>(row: T) {
+  const { slug, modelTitle, editionNumber, ...rest } = row;
   const cloned = slug !== null && editionNumber !== null;
   return {
     ...rest,
     source: cloned ? citationKey(slug, editionNumber) : null,
     sourcePath: cloned ? `/library/${slug}/e/${editionNumber}` : null,
+    sourceModel: cloned ? { slug, title: modelTitle ?? slug, path: `/library/${slug}`, edition: editionNumber } : null,
   };
 }
 
@@ -178,8 +183,8 @@ export async function findEditionToClone(slug: string, edition: number | null) {
   return { slug: record.model.slug, number: record.number, title: record.model.title, family: record.model.family, retracted: record.retractedAt !== null, key: citationKey(record.model.slug, record.number) };
 }
 
-/** Copies an edition's parameters into a new item titled "<title> (copy)"; null for an unknown edition. */
-export async function cloneEditionToWorkspace(ownerId: string, slug: string, edition: number | null): Promise<string | null> {
+/** Copies an edition's parameters into a new item titled `title` (default "<model title> (copy)"); null for an unknown edition. */
+export async function cloneEditionToWorkspace(ownerId: string, slug: string, edition: number | null, title?: string): Promise<string | null> {
   const record = edition === null ? await getLatestEdition(slug) : await getEdition(slug, edition);
   if (!record) return null;
   const [row] = await db()
@@ -189,9 +194,32 @@ export async function cloneEditionToWorkspace(ownerId: string, slug: string, edi
     .where(and(eq(models.slug, record.model.slug), eq(editions.number, record.number)))
     .limit(1);
   if (!row) return null;
-  const title = `${record.model.title} (copy)`.slice(0, TITLE_MAX);
   const notes = `Cloned from ${citationKey(record.model.slug, record.number)}.`;
-  return insertItem(ownerId, { title, notes, family: record.params.family, params: record.params, sourceEditionId: row.id });
+  return insertItem(ownerId, { title: title || `${record.model.title} (copy)`.slice(0, TITLE_MAX), notes, family: record.params.family, params: record.params, sourceEditionId: row.id });
+}
+
+/** The server's figures for a saved revision: computed and verified by two routes, or why not. */
+export type SavedFigures =
+  | { ok: true; entropyRateBits: number | null; minEntropyRateBits: number | null; verified: boolean; checks: number; failedChecks: string[]; message: string | null }
+  | { ok: false; message: string };
+
+/** Computes and verifies `params` (already validated) with the engine's defaults; never throws for a model's own faults. */
+export function savedFigures(params: ModelParams): SavedFigures {
+  try {
+    const r = computeFigures({ model: params });
+    return {
+      ok: true,
+      entropyRateBits: r.entropyRate?.bits ?? null,
+      minEntropyRateBits: r.minEntropyRate?.bits ?? null,
+      verified: r.verification.passed,
+      checks: r.verification.checks.length,
+      failedChecks: r.verification.checks.filter((c) => !c.passed).map((c) => c.figure),
+      message: r.message ?? null,
+    };
+  } catch (e) {
+    if (e instanceof EngineInputError) return { ok: false, message: e.message };
+    throw e;
+  }
 }
 
 /**
@@ -203,12 +231,12 @@ export async function saveWorkspaceItem(
   ownerId: string,
   id: string,
   input: { baseRevision: number; title: string; notes: string; params: unknown },
-): Promise<WorkspaceOutcome<{ revision: number }>> {
+): Promise<WorkspaceOutcome<{ revision: number; figures: SavedFigures }>> {
   if (!isUuid(id)) return notFound;
   const parsed = parseModel(input.params);
   if (!parsed.ok) return { ok: false, kind: "invalid", status: 400, message: parsed.error.message, issues: parsed.error.issues };
   const params = parsed.value;
-  return db().transaction(async (tx) => {
+  const saved = await db().transaction(async (tx): Promise<WorkspaceOutcome<{ revision: number }>> => {
     const [cur] = await tx
       .select({ revision: workspaceItems.revision, family: workspaceItems.family })
       .from(workspaceItems)
@@ -222,7 +250,7 @@ export async function saveWorkspaceItem(
         kind: "stale",
         status: 409,
         currentRevision: cur.revision,
-        message: `This item was saved elsewhere at revision ${cur.revision}; your changes are still in this page: copy them, reload, and apply them again.`,
+        message: `This item was saved elsewhere at revision ${cur.revision} after you opened revision ${input.baseRevision}; your changes were not saved and revision ${cur.revision} was not overwritten.`,
       } as const;
     }
     if (params.family !== cur.family) {
@@ -237,6 +265,9 @@ export async function saveWorkspaceItem(
     await tx.insert(workspaceRevisions).values({ itemId: id, revision, title: input.title, notes: input.notes, params });
     return { ok: true, value: { revision } } as const;
   });
+  // The authoritative figures of what was saved: computed and verified here, after the commit (the
+  // row lock is not held while the engine works).
+  return saved.ok ? { ok: true, value: { revision: saved.value.revision, figures: savedFigures(params) } } : saved;
 }
 
 /** Copies revision `from` into a new revision (the newest); refused like a save if `baseRevision` is stale. */

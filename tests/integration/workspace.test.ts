@@ -58,6 +58,26 @@ describe("creating and cloning", () => {
     expect(list).toContain("ergoshelf:buoy-k05-sea-state-hourly@1");
   });
 
+  it("clones under the title the user gives, and the page shows the model and edition it came from", async () => {
+    const res = await postForm("/workspace/new", { intent: "clone", slug: "buoy-k05-sea-state-hourly", edition: "1", title: "K05 refit for the winter report" }, alice.cookie);
+    const id = itemIdFrom(res);
+    expect((await itemRow(id)).title).toBe("K05 refit for the winter report");
+    const page = await (await get(`/workspace/${id}`, alice.cookie)).text();
+    expect(page).toContain('href="/library/buoy-k05-sea-state-hourly"');
+    expect(page).toContain('href="/library/buoy-k05-sea-state-hourly/e/1"');
+    // The owner is offered the way to a proposal.
+    expect(page).toContain(`href="/workspace/${id}/submit"`);
+  });
+
+  it("refuses a clone title over the limit with 400 next to the field, and creates nothing", async () => {
+    const before = (await db().select().from(workspaceItems).where(eq(workspaceItems.ownerId, bob.id))).length;
+    const page = "/workspace/new?slug=buoy-k05-sea-state-hourly&edition=1";
+    const res = await postForm(page, { intent: "clone", slug: "buoy-k05-sea-state-hourly", edition: "1", title: "x".repeat(201) }, bob.cookie);
+    expect(res.status).toBe(400);
+    expect(await res.text()).toMatch(/id="clone-title-error"[^>]*>.*a title has at most 200 characters/s);
+    expect((await db().select().from(workspaceItems).where(eq(workspaceItems.ownerId, bob.id))).length).toBe(before);
+  });
+
   it("refuses an unknown edition with 400 and creates nothing", async () => {
     const before = (await db().select().from(workspaceItems).where(eq(workspaceItems.ownerId, bob.id))).length;
     const res = await postForm("/workspace/new", { intent: "clone", slug: "no-such-model-here", edition: "1" }, bob.cookie);
@@ -79,9 +99,17 @@ describe("saving, conflicts and restoring", () => {
     id = itemIdFrom(await postForm("/workspace/new", { intent: "create", family: "markov", title: "Sea state draft" }, alice.cookie));
   });
 
-  it("saves as revision 2 and records the revision", async () => {
+  it("saves as revision 2, records the revision and answers with the server's verified figures", async () => {
     const res = await postForm(`/workspace/${id}`, { intent: "save", revision: "1", title: "Sea state v2", notes: "refit", params: markov([[0.9, 0.1], [0.2, 0.8]]) }, alice.cookie);
     expect(res.status).toBe(200);
+    // Two-state closed form (from memory): μ = (b, a)/(a + b) with a = 0.1, b = 0.2, so μ = (2/3, 1/3),
+    // and H = μ₀·h(0.1) + μ₁·h(0.2) with h the binary entropy in bits: 0.468996·2/3 + 0.721928/3 = 0.553306 to six places.
+    const h = (p: number) => -p * Math.log2(p) - (1 - p) * Math.log2(1 - p);
+    const expected = ((2 / 3) * h(0.1) + (1 / 3) * h(0.2)).toFixed(6);
+    expect(expected).toBe("0.553306");
+    const body = (await res.text()).replace(/<!-- -->/g, "");
+    expect(body).toMatch(new RegExp(`Server figures for revision 2:.*entropy rate ${expected}`, "s"));
+    expect(body).toContain("verified by two routes");
     const row = await itemRow(id);
     expect(row.revision).toBe(2);
     expect(row.title).toBe("Sea state v2");
@@ -92,7 +120,7 @@ describe("saving, conflicts and restoring", () => {
   it("refuses a save made at a stale revision with 409 and saves nothing", async () => {
     const res = await postForm(`/workspace/${id}`, { intent: "save", revision: "1", title: "From an old tab", notes: "", params: markov([[0.5, 0.5], [0.5, 0.5]]) }, alice.cookie);
     expect(res.status).toBe(409);
-    expect(await res.text()).toContain("This item was saved elsewhere at revision 2");
+    expect(await res.text()).toContain("This item was saved elsewhere at revision 2 after you opened revision 1; your changes were not saved");
     const row = await itemRow(id);
     expect(row.revision).toBe(2);
     expect(row.title).toBe("Sea state v2");

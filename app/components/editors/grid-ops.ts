@@ -75,9 +75,10 @@ export function normaliseRow(row: readonly Cell[]): Cell[] {
   const s = rowSum(row);
   if (s === null || s <= 0 || row.some((x) => (x as number) < 0)) return row.slice();
   const out = row.map((x) => tidy((x as number) / s));
-  // Put any rounding remainder on the largest entry so the tidy row sums to 1 within 1e-12.
+  // Rounding to 12 digits leaves the sum within about n·5e-13 of 1; when that exceeds 1e-12 (long
+  // rows), put the remainder on the largest entry so the row stays well inside the engine's 1e-9.
   const rest = 1 - (rowSum(out) as number);
-  if (rest !== 0) {
+  if (Math.abs(rest) > 1e-12) {
     let k = 0;
     for (let j = 1; j < out.length; j++) if ((out[j] as number) > (out[k] as number)) k = j;
     out[k] = (out[k] as number) + rest;
@@ -99,6 +100,18 @@ export function remapMatrix(M: readonly (readonly Cell[])[], rowSource: readonly
   return rowSource.map((ri) => {
     if (ri < 0 || ri >= M.length) return new Array<Cell>(width).fill(width > 0 ? tidy(1 / width) : 0);
     return colSource.map((cj) => (cj < 0 ? 0 : (M[ri][cj] ?? 0)));
+  });
+}
+
+/**
+ * After a column was removed: each new row whose source row summed to 1 before is rescaled to sum to
+ * 1 again (the removed successor's share goes to the others in proportion). Rows that were already
+ * off, new rows, and rows left summing to 0 are kept as they are, so the grid still marks them. O(rows·cols).
+ */
+export function renormaliseKeptRows(next: readonly (readonly Cell[])[], rowSource: readonly number[], before: readonly (readonly Cell[])[]): Cell[][] {
+  return next.map((row, i) => {
+    const src = rowSource[i];
+    return src >= 0 && src < before.length && !rowIsOff(before[src]) ? normaliseRow(row) : row.slice();
   });
 }
 

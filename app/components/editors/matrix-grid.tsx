@@ -3,7 +3,7 @@
  * a pasted spreadsheet/CSV block fills cells from the focused one, each row shows its sum and is
  * marked (icon + words) when it does not sum to 1.
  */
-import { useEffect, useRef, useState } from "react";
+import { Fragment, useEffect, useRef, useState } from "react";
 import { isBlock, normaliseAll, normaliseRow, parseBlock, parseCell, pasteBlock, rowIsOff, rowSum, type Cell } from "./grid-ops";
 
 /** A number input that keeps the user's text while they type ("0." stays "0."). */
@@ -49,8 +49,7 @@ export interface MatrixGridProps {
   describe: (row: string, col: string) => string;
 }
 
-function fmtSum(s: number | null): string {
-  if (s === null) return "not a number";
+function fmtSum(s: number): string {
   return String(Number(s.toPrecision(10)));
 }
 
@@ -105,7 +104,7 @@ export function MatrixGrid({ name, caption, rowLabels, colLabels, rows, onChange
           Normalise all rows
         </button>
       </div>
-      <div className="overflow-x-auto rounded border border-rule bg-card" role="region" aria-label={caption} tabIndex={-1}>
+      <div className="relative overflow-x-auto rounded border border-rule bg-card" role="region" aria-label={caption} tabIndex={-1}>
         <table ref={table} className="ws-grid w-max border-collapse text-sm">
           <caption className="sr-only">{caption}</caption>
           <thead>
@@ -128,73 +127,93 @@ export function MatrixGrid({ name, caption, rowLabels, colLabels, rows, onChange
               const off = rowIsOff(row);
               const rowIssues = issues.get(`${name}[${i}]`) ?? [];
               const rowErrId = `${name}-row-${i}-error`;
+              const cellProblems = row.flatMap((_, j) => {
+                const msgs = issues.get(`${name}[${i}][${j}]`) ?? [];
+                return msgs.length ? [{ j, msgs }] : [];
+              });
+              const sum = rowSum(row);
               return (
-                <tr key={i} className={`border-t border-rule ${off ? "bg-warn/5" : ""}`}>
-                  <th scope="row" className="px-2 py-1 text-left font-mono text-xs font-semibold whitespace-nowrap">
-                    {rowLabels[i]}
-                  </th>
-                  {row.map((v, j) => {
-                    const cellIssues = issues.get(`${name}[${i}][${j}]`) ?? [];
-                    const errId = `${name}-${i}-${j}-error`;
-                    const described = [cellIssues.length ? errId : null, rowIssues.length ? rowErrId : null].filter(Boolean).join(" ");
-                    return (
-                      <td key={j} className="px-1 py-1 align-top">
-                        <CellInput
-                          value={v}
-                          onValue={(c) => setCell(i, j, c)}
-                          data-r={i}
-                          data-c={j}
-                          aria-label={describe(rowLabels[i], colLabels[j])}
-                          aria-invalid={cellIssues.length > 0 || undefined}
-                          aria-describedby={described || undefined}
-                          onKeyDown={(e) => onKeyDown(e, i, j)}
-                          onPaste={(e) => onPaste(e, i, j)}
-                          onFocus={(e) => e.currentTarget.select()}
-                          className="w-[5.5rem] px-1.5 py-1"
-                        />
-                        {cellIssues.length > 0 && (
-                          <p id={errId} className="mt-0.5 max-w-[9rem] text-xs text-bad">
-                            {cellIssues.join("; ")}
+                <Fragment key={i}>
+                  <tr className={`border-t border-rule ${off ? "bg-warn/5" : ""}`}>
+                    <th scope="row" className="px-2 py-1 text-left font-mono text-xs font-semibold whitespace-nowrap">
+                      {rowLabels[i]}
+                    </th>
+                    {row.map((v, j) => {
+                      const bad = issues.has(`${name}[${i}][${j}]`);
+                      const described = [bad ? `${name}-${i}-${j}-error` : null, rowIssues.length ? rowErrId : null].filter(Boolean).join(" ");
+                      return (
+                        <td key={j} className="px-1 py-1">
+                          <CellInput
+                            value={v}
+                            onValue={(c) => setCell(i, j, c)}
+                            data-r={i}
+                            data-c={j}
+                            aria-label={describe(rowLabels[i], colLabels[j])}
+                            aria-invalid={bad || undefined}
+                            aria-describedby={described || undefined}
+                            onKeyDown={(e) => onKeyDown(e, i, j)}
+                            onPaste={(e) => onPaste(e, i, j)}
+                            onFocus={(e) => e.currentTarget.select()}
+                            className={`w-[5.5rem] px-1.5 py-1 ${bad ? "ws-cell-bad" : ""}`}
+                          />
+                        </td>
+                      );
+                    })}
+                    <td className="px-2 py-1 whitespace-nowrap">
+                      <div className="flex items-center gap-2">
+                        <span className={`figures font-mono text-xs ${off ? "font-semibold text-warn" : "text-ok"}`} data-testid={`${name}-rowsum-${i}`}>
+                          {sum === null ? (
+                            <>
+                              <span aria-hidden="true">⚠ </span>
+                              <span className="font-sans">no sum</span>
+                            </>
+                          ) : off ? (
+                            <>
+                              <span aria-hidden="true">⚠ </span>
+                              {fmtSum(sum)} <span className="font-sans">(not 1)</span>
+                            </>
+                          ) : (
+                            <>
+                              <span aria-hidden="true">✓ </span>1
+                            </>
+                          )}
+                        </span>
+                        <button
+                          type="button"
+                          className="rounded border border-rule px-1.5 py-0.5 text-xs hover:bg-paper-deep disabled:opacity-50"
+                          onClick={() => {
+                            const next = rows.slice();
+                            next[i] = normaliseRow(row);
+                            onChange(next);
+                          }}
+                          disabled={!off || sum === null || sum <= 0}
+                          aria-label={`Normalise row ${rowLabels[i]}`}
+                        >
+                          Normalise
+                        </button>
+                      </div>
+                    </td>
+                  </tr>
+                  {(rowIssues.length > 0 || cellProblems.length > 0) && (
+                    <tr className="bg-bad/5">
+                      <td />
+                      <td colSpan={colLabels.length + 1} className="ws-grid-msg px-1 pb-1.5 text-xs text-bad">
+                        {cellProblems.map(({ j, msgs }) => (
+                          <p key={j} id={`${name}-${i}-${j}-error`}>
+                            <span aria-hidden="true">✕ </span>
+                            <span className="font-mono font-semibold">{describe(rowLabels[i], colLabels[j])}</span>: {msgs.join("; ")}
+                          </p>
+                        ))}
+                        {rowIssues.length > 0 && (
+                          <p id={rowErrId}>
+                            <span aria-hidden="true">✕ </span>
+                            <span className="font-semibold">Row {rowLabels[i]}</span>: {rowIssues.join("; ")}
                           </p>
                         )}
                       </td>
-                    );
-                  })}
-                  <td className="px-2 py-1 align-top whitespace-nowrap">
-                    <div className="flex items-center gap-2">
-                      <span className={`figures font-mono text-xs ${off ? "font-semibold text-warn" : "text-ok"}`} data-testid={`${name}-rowsum-${i}`}>
-                        {off ? (
-                          <>
-                            <span aria-hidden="true">⚠ </span>
-                            {fmtSum(rowSum(row))} <span className="font-sans">(not 1)</span>
-                          </>
-                        ) : (
-                          <>
-                            <span aria-hidden="true">✓ </span>1
-                          </>
-                        )}
-                      </span>
-                      <button
-                        type="button"
-                        className="rounded border border-rule px-1.5 py-0.5 text-xs hover:bg-paper-deep disabled:opacity-50"
-                        onClick={() => {
-                          const next = rows.slice();
-                          next[i] = normaliseRow(row);
-                          onChange(next);
-                        }}
-                        disabled={!off}
-                        aria-label={`Normalise row ${rowLabels[i]}`}
-                      >
-                        Normalise
-                      </button>
-                    </div>
-                    {rowIssues.length > 0 && (
-                      <p id={rowErrId} className="mt-0.5 max-w-[14rem] text-xs whitespace-normal text-bad">
-                        {rowIssues.join("; ")}
-                      </p>
-                    )}
-                  </td>
-                </tr>
+                    </tr>
+                  )}
+                </Fragment>
               );
             })}
           </tbody>

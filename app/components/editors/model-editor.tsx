@@ -14,6 +14,7 @@ import {
   normaliseRow,
   parseEdgeCsv,
   remapMatrix,
+  renormaliseKeptRows,
   rowIsOff,
   rowSum,
   sourcesAfterAdd,
@@ -110,7 +111,9 @@ function MarkovEditor({ d, onChange, issues }: { d: MarkovDraft; onChange: (d: D
   const rowLabels = d.order === 1 ? d.alphabet : contextRowLabels(d.alphabet, d.order);
   const remap = (symbolSource: number[], alphabet: string[], order = d.order, oldOrder = d.order) => {
     const rowsSrc = order === oldOrder ? contextSources(symbolSource, m, order) : new Array<number>(alphabet.length ** order).fill(-1);
-    onChange({ ...d, alphabet, order, P: remapMatrix(d.P, rowsSrc, symbolSource) });
+    const P = remapMatrix(d.P, rowsSrc, symbolSource);
+    // Removing a symbol drops its column: rows that summed to 1 are rescaled so they still do.
+    onChange({ ...d, alphabet, order, P: symbolSource.length < m ? renormaliseKeptRows(P, rowsSrc, d.P) : P });
   };
   return (
     <div>
@@ -179,8 +182,15 @@ function HiddenEditor({ d, onChange, issues }: { d: HiddenDraft; onChange: (d: D
   const n = d.states.length;
   const k = d.alphabet.length;
   const ident = (len: number) => Array.from({ length: len }, (_, i) => i);
-  const changeStates = (src: number[], states: string[]) => onChange({ ...d, states, P: remapMatrix(d.P, src, src), B: remapMatrix(d.B, src, ident(k)) });
-  const changeSymbols = (src: number[], alphabet: string[]) => onChange({ ...d, alphabet, B: remapMatrix(d.B, ident(n), src) });
+  // Removing a state or a symbol drops a column: rows that summed to 1 are rescaled so they still do.
+  const changeStates = (src: number[], states: string[]) => {
+    const P = remapMatrix(d.P, src, src);
+    onChange({ ...d, states, P: src.length < n ? renormaliseKeptRows(P, src, d.P) : P, B: remapMatrix(d.B, src, ident(k)) });
+  };
+  const changeSymbols = (src: number[], alphabet: string[]) => {
+    const B = remapMatrix(d.B, ident(n), src);
+    onChange({ ...d, alphabet, B: src.length < k ? renormaliseKeptRows(B, ident(n), d.B) : B });
+  };
   return (
     <div>
       <LabelList
@@ -271,7 +281,7 @@ function IidEditor({ d, onChange, issues }: { d: IidDraft; onChange: (d: Draft) 
   const off = rowIsOff(d.p);
   return (
     <div className="mt-3">
-      <table className="w-full max-w-md border-collapse text-sm">
+      <table className="border-collapse text-sm">
         <caption className="sr-only">Symbols and their probabilities</caption>
         <thead>
           <tr className="border-b border-rule text-left text-xs text-ink-soft">
@@ -285,7 +295,7 @@ function IidEditor({ d, onChange, issues }: { d: IidDraft; onChange: (d: Draft) 
             <tr key={i} className="border-b border-rule/60 align-top">
               <td className="py-1 pr-2">
                 <input
-                  className="field px-2 py-1 font-mono text-sm"
+                  className="field w-40 max-w-full px-2 py-1 font-mono text-sm"
                   aria-label={`Symbol ${i + 1}`}
                   value={s}
                   onChange={(e) => onChange({ ...d, alphabet: d.alphabet.map((x, j) => (j === i ? e.target.value : x)) })}
@@ -310,7 +320,11 @@ function IidEditor({ d, onChange, issues }: { d: IidDraft; onChange: (d: Draft) 
                   type="button"
                   className="mt-1 rounded border border-rule px-1.5 leading-6 hover:bg-paper-deep disabled:opacity-40"
                   disabled={d.alphabet.length <= 1}
-                  onClick={() => onChange({ ...d, alphabet: d.alphabet.filter((_, j) => j !== i), p: d.p.filter((_, j) => j !== i) })}
+                  onClick={() => {
+                    const p = d.p.filter((_, j) => j !== i);
+                    // A distribution that summed to 1 is rescaled so it still does without the removed symbol.
+                    onChange({ ...d, alphabet: d.alphabet.filter((_, j) => j !== i), p: rowIsOff(d.p) ? p : normaliseRow(p) });
+                  }}
                   aria-label={`Remove ${s || `symbol ${i + 1}`}`}
                 >
                   ×
@@ -367,7 +381,7 @@ function GraphEditor({ d, onChange, issues }: { d: GraphDraft; onChange: (d: Dra
         }}
       />
       <h3 className="mt-4 text-sm font-semibold">Edges (undirected; a self-loop adds its weight once)</h3>
-      <div className="mt-1 overflow-x-auto">
+      <div className="relative mt-1 overflow-x-auto">
         <table className="border-collapse text-sm">
           <caption className="sr-only">Edges: node, node, weight</caption>
           <thead>
@@ -386,11 +400,11 @@ function GraphEditor({ d, onChange, issues }: { d: GraphDraft; onChange: (d: Dra
               const nodeOptions = (current: string) => (d.nodes.includes(current) ? d.nodes : [current, ...d.nodes]);
               return (
                 <tr key={i} className="border-b border-rule/60 align-top">
-                  <td className="figures py-1 pr-2 font-mono text-xs text-ink-soft">{i}</td>
+                  <td className="figures py-1 pt-2.5 pr-2 font-mono text-xs text-ink-soft">{i}</td>
                   {([0, 1] as const).map((k) => (
                     <td key={k} className="py-1 pr-2">
                       <select
-                        className="field w-32 px-1.5 py-1 font-mono text-sm"
+                        className="field w-[6.5rem] px-1.5 py-1 font-mono text-sm sm:w-32"
                         aria-label={`Edge ${i}, node ${k === 0 ? "u" : "v"}`}
                         value={k === 0 ? u : v}
                         onChange={(e) => setEdge(i, k, e.target.value)}
@@ -410,7 +424,7 @@ function GraphEditor({ d, onChange, issues }: { d: GraphDraft; onChange: (d: Dra
                       aria-label={`Edge ${i}, weight`}
                       value={w}
                       onValue={(c) => setEdge(i, 2, c)}
-                      className="w-24 px-1.5 py-1"
+                      className="w-20 px-1.5 py-1 sm:w-24"
                       aria-invalid={errs.length ? true : undefined}
                       aria-describedby={errs.length ? errId : undefined}
                     />
@@ -438,9 +452,38 @@ function GraphEditor({ d, onChange, issues }: { d: GraphDraft; onChange: (d: Dra
       <details className="mt-3 rounded border border-rule bg-paper-deep/30 p-3">
         <summary className="cursor-pointer text-sm font-semibold">Import edges from CSV</summary>
         <label htmlFor="edge-csv" className="mt-2 block text-sm">
-          One edge per line as <code>u,v,w</code>; new node names are added to the node list.
+          One edge per line as <code>u,v,w</code> (comma, tab or semicolon; a header line and <code>#</code> comments are skipped); new node names are added to the
+          node list.
         </label>
-        <textarea id="edge-csv" className="field mt-1 h-28 font-mono text-sm" value={csv} onChange={(e) => setCsv(e.target.value)} aria-describedby={csvProblems.length ? "edge-csv-error" : undefined} />
+        <textarea
+          id="edge-csv"
+          className="field mt-1 h-28 font-mono text-sm"
+          value={csv}
+          placeholder={"dock,aisle-1,3\naisle-1,charger,0.5"}
+          onChange={(e) => setCsv(e.target.value)}
+          aria-describedby={csvProblems.length ? "edge-csv-error" : undefined}
+        />
+        <div className="mt-2">
+          <label htmlFor="edge-csv-file" className="text-sm">
+            or read a CSV file into the box:
+          </label>{" "}
+          <input
+            id="edge-csv-file"
+            type="file"
+            accept=".csv,.tsv,.txt,text/csv,text/plain"
+            className="text-sm"
+            onChange={async (e) => {
+              const file = e.target.files?.[0];
+              if (!file) return;
+              if (file.size > 5 * 1024 * 1024) {
+                setCsvProblems([`${file.name} is ${(file.size / 1024 / 1024).toFixed(1)} MB; the editor reads edge files of up to 5 MB`]);
+                return;
+              }
+              setCsv(await file.text());
+              setCsvProblems([]);
+            }}
+          />
+        </div>
         <button
           type="button"
           className="btn btn-quiet mt-2 text-sm"

@@ -25,9 +25,22 @@ export type PreviewState =
   | { kind: "invalid"; message: string; issues: InputIssue[] }
   | { kind: "failed"; message: string };
 
+type ReadyState = Extract<PreviewState, { kind: "ready" }>;
+
+/** The current preview and the last one that had figures (shown dimmed while the parameters are invalid). */
+export interface Preview {
+  state: PreviewState;
+  last: ReadyState | null;
+}
+
 /** Computes the preview of `model` (JSON) locally or on the server, debounced; re-runs when `key` changes. */
-export function usePreview(model: unknown, local: boolean): PreviewState {
-  const [state, setState] = useState<PreviewState>({ kind: "idle" });
+export function usePreview(model: unknown, local: boolean): Preview {
+  const [state, setStateRaw] = useState<PreviewState>({ kind: "idle" });
+  const [last, setLast] = useState<ReadyState | null>(null);
+  const setState = (s: PreviewState) => {
+    setStateRaw(s);
+    if (s.kind === "ready") setLast(s);
+  };
   const key = useMemo(() => JSON.stringify(model), [model]);
   useEffect(() => {
     let cancelled = false;
@@ -69,7 +82,7 @@ export function usePreview(model: unknown, local: boolean): PreviewState {
     };
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [key, local]);
-  return state;
+  return { state, last };
 }
 type PreviewStateReadyResult = Extract<PreviewState, { kind: "ready" }>["result"];
 
@@ -84,10 +97,25 @@ function Figure({ label, children, testId }: { label: string; children: React.Re
   );
 }
 
-export function PreviewPanel({ state, stale }: { state: PreviewState; stale: boolean }) {
+/** An issue as "path: message", without repeating a path the message already starts with. */
+function IssueText({ issue }: { issue: InputIssue }) {
+  const path = issue.path.replace(/^model\.?/, "") || "model";
+  if (issue.message.startsWith(path)) return <>{issue.message}</>;
+  return (
+    <>
+      <code className="text-xs">{path}</code>: {issue.message}
+    </>
+  );
+}
+
+export function PreviewPanel({ preview, stale, remote }: { preview: Preview; stale: boolean; remote: boolean }) {
   const { unit } = useUnits();
   const u = unitLabel(unit);
-  const r = state.kind === "ready" ? state.result : null;
+  const { state } = preview;
+  // While the parameters are invalid (or being recomputed) the last figures stay, dimmed and labelled.
+  const shown = state.kind === "ready" ? state : state.kind === "invalid" || state.kind === "pending" || state.kind === "failed" ? preview.last : null;
+  const r = shown?.result ?? null;
+  const old = state.kind !== "ready" && r !== null;
   return (
     <section aria-labelledby="preview-title" className="card p-4" aria-busy={state.kind === "pending"}>
       <div className="flex flex-wrap items-baseline justify-between gap-2">
@@ -95,11 +123,17 @@ export function PreviewPanel({ state, stale }: { state: PreviewState; stale: boo
           Live preview
         </h2>
         <p className="text-xs text-ink-soft" role="status">
-          {state.kind === "pending" && <span>⏳ Computing on the server…</span>}
+          {state.kind === "pending" && <span className="font-semibold text-ink">Computing on the server…</span>}
           {state.kind === "ready" && (state.where === "browser" ? `computed in this browser${state.ms !== undefined ? ` in ${state.ms.toFixed(0)} ms` : ""}` : "computed on the server")}
           {stale && state.kind === "ready" ? " · unsaved changes" : ""}
         </p>
       </div>
+      {state.kind === "pending" && <div className="ws-pending-bar mt-2" aria-hidden="true" data-testid="preview-pending" />}
+      <p className="mt-1 text-xs text-ink-soft">
+        {remote
+          ? "Hidden sources and chains of more than 64 states are computed by the server's compute API as you edit."
+          : "Computed in your browser as you type, without the verification pass; the server validates and verifies when you save."}
+      </p>
       {state.kind === "invalid" && (
         <div className="mt-3 rounded border border-bad/40 bg-bad/5 p-3 text-sm text-bad" role="alert">
           <p className="font-semibold">
@@ -108,9 +142,10 @@ export function PreviewPanel({ state, stale }: { state: PreviewState; stale: boo
           <ul className="mt-1 list-disc pl-5">
             {state.issues.slice(0, 8).map((i, k) => (
               <li key={k}>
-                <code className="text-xs">{i.path.replace(/^model\.?/, "") || "model"}</code>: {i.message}
+                <IssueText issue={i} />
               </li>
             ))}
+            {state.issues.length > 8 && <li>and {state.issues.length - 8} more, marked in the editor</li>}
             {state.issues.length === 0 && <li>{state.message}</li>}
           </ul>
         </div>
@@ -121,15 +156,26 @@ export function PreviewPanel({ state, stale }: { state: PreviewState; stale: boo
           {state.message}
         </p>
       )}
-      <dl className={`mt-3 grid grid-cols-2 gap-3 ${state.kind === "pending" ? "opacity-60" : ""}`}>
+      {old && state.kind !== "pending" && (
+        <p className="mt-3 text-xs font-semibold text-ink-soft" data-testid="preview-last-valid">
+          Last valid figures, before your latest change:
+        </p>
+      )}
+      <dl className={`mt-3 grid grid-cols-2 gap-3 ${old ? "opacity-55" : ""}`}>
         <Figure label={`Entropy rate (${u})`} testId="preview-entropy-rate">
           {r ? formatRate(r.entropyRate, unit) : "—"}
         </Figure>
         <Figure label={`Min-entropy rate (${u})`} testId="preview-min-entropy-rate">
-          {r ? (r.family === "hidden" ? <span className="text-sm font-normal text-ink-soft">not computed for hidden sources</span> : formatRate(r.minEntropyRate, unit)) : "—"}
+          {r ? (r.family === "hidden" ? <span className="font-sans text-sm font-normal text-ink-soft">not computed for hidden sources</span> : formatRate(r.minEntropyRate, unit)) : "—"}
         </Figure>
-        <Figure label="Irreducible">{r ? (r.irreducible ? "yes" : "no") : "—"}</Figure>
-        <Figure label="Period">{r ? (r.period === null ? "—" : r.period === 1 ? "1 (aperiodic)" : String(r.period)) : "—"}</Figure>
+        {r?.family === "iid" ? (
+          <Figure label="Symbols">{r.states.length}</Figure>
+        ) : (
+          <>
+            <Figure label="Irreducible">{r ? (r.irreducible ? "yes" : "no") : "—"}</Figure>
+            <Figure label="Period">{r ? (r.period === null ? "—" : r.period === 1 ? "1 (aperiodic)" : String(r.period)) : "—"}</Figure>
+          </>
+        )}
       </dl>
       {r?.message && (
         <p className="mt-2 rounded border border-warn/40 bg-warn/5 p-2 text-sm" role="note">
@@ -145,7 +191,9 @@ export function PreviewPanel({ state, stale }: { state: PreviewState; stale: boo
       )}
       {r?.stationary && (
         <details className="mt-3" open={r.stationary.length <= 12}>
-          <summary className="cursor-pointer text-sm font-semibold">Stationary distribution μ ({r.stationary.length} states)</summary>
+          <summary className="cursor-pointer text-sm font-semibold">
+            {r.family === "iid" ? `Symbol probabilities (${r.stationary.length} symbols)` : `Stationary distribution μ (${r.stationary.length} states)`}
+          </summary>
           <div className="mt-1 max-h-64 overflow-y-auto">
             <table className="w-full text-sm">
               <tbody>
@@ -179,45 +227,93 @@ export function PreviewPanel({ state, stale }: { state: PreviewState; stale: boo
   );
 }
 
+/** What a sweep varies: a parameter the engine's sweep knows, or one edge weight of a graph walk. */
+export type SweepTarget = { kind: "engine"; parameter: SweepParameter } | { kind: "edge"; index: number };
+
+export interface SweepChoice {
+  id: string;
+  label: string;
+  target: SweepTarget;
+  /** The range swept: probabilities over [0, 1]; an edge weight from 0 to twice its current value. */
+  from: number;
+  to: number;
+  /** How the rest of the model follows the varied value (for the caption). */
+  rule: string;
+}
+
+const ROW_RULE = "the rest of its row rescaled to keep the sum 1";
+
 /** The parameters a sweep can vary for this model, with a label each. */
-export function sweepChoices(model: unknown): { id: string; label: string; parameter: SweepParameter }[] {
-  const m = model as { family?: string; alphabet?: string[]; order?: number; P?: unknown[][]; p?: unknown[] };
+export function sweepChoices(model: unknown): SweepChoice[] {
+  const m = model as { family?: string; alphabet?: string[]; order?: number; P?: unknown[][]; p?: unknown[]; edges?: unknown[][] };
+  const engine = (id: string, label: string, parameter: SweepParameter, rule: string): SweepChoice => ({ id, label, target: { kind: "engine", parameter }, from: 0, to: 1, rule });
   if (m.family === "two-state" && m.alphabet) {
     return [
-      { id: "a", label: `a = P(${m.alphabet[0]} → ${m.alphabet[1]})`, parameter: { kind: "two-state", name: "a" } },
-      { id: "b", label: `b = P(${m.alphabet[1]} → ${m.alphabet[0]})`, parameter: { kind: "two-state", name: "b" } },
+      engine("a", `a = P(${m.alphabet[0]} → ${m.alphabet[1]})`, { kind: "two-state", name: "a" }, "b held fixed"),
+      engine("b", `b = P(${m.alphabet[1]} → ${m.alphabet[0]})`, { kind: "two-state", name: "b" }, "a held fixed"),
     ];
   }
   if (m.family === "iid" && m.alphabet) {
-    return m.alphabet.map((s, i) => ({ id: `p${i}`, label: `p(${s})`, parameter: { kind: "iid", index: i } }));
+    return m.alphabet.map((s, i) => engine(`p${i}`, `p(${s})`, { kind: "iid", index: i }, "the other probabilities rescaled to keep the sum 1"));
   }
   if (m.family === "markov" && m.alphabet && Array.isArray(m.P) && m.P.length <= 256) {
     const order = m.order ?? 1;
     const k = m.alphabet.length;
-    const out: { id: string; label: string; parameter: SweepParameter }[] = [];
+    const out: SweepChoice[] = [];
     for (let r = 0; r < m.P.length; r++) {
-      let ctx = "";
       let rest = r;
       const parts: string[] = [];
       for (let t = 0; t < order; t++) {
         parts.unshift(m.alphabet[rest % k]);
         rest = Math.floor(rest / k);
       }
-      ctx = parts.join("·");
-      for (let c = 0; c < k; c++) out.push({ id: `${r}-${c}`, label: `P(${ctx} → ${m.alphabet[c]})`, parameter: { kind: "entry", row: r, col: c } });
+      const ctx = parts.join("·");
+      for (let c = 0; c < k; c++) out.push(engine(`${r}-${c}`, `P(${ctx} → ${m.alphabet[c]})`, { kind: "entry", row: r, col: c }, ROW_RULE));
     }
     return out;
+  }
+  if (m.family === "graph-walk" && Array.isArray(m.edges) && m.edges.length <= 2000) {
+    return m.edges.flatMap((e, index) => {
+      const w = e[2];
+      if (typeof w !== "number" || !(w >= 0)) return [];
+      return [{ id: `e${index}`, label: `w(${String(e[0])} – ${String(e[1])})`, target: { kind: "edge", index } as const, from: 0, to: w > 0 ? 2 * w : 1, rule: "the other weights held fixed" }];
+    });
   }
   return [];
 }
 
-export function SweepChart({ model, valid }: { model: unknown; valid: boolean }) {
+/** Entropy rate of a graph walk with one edge weight set to each x; null (with a reason) where there is no single rate. */
+function sweepEdge(model: unknown, index: number, from: number, to: number, steps: number): SweepPoint[] {
+  const m = model as { edges: [unknown, unknown, number][] };
+  const points: SweepPoint[] = [];
+  for (let i = 0; i < steps; i++) {
+    const x = i === steps - 1 ? to : from + ((to - from) * i) / (steps - 1);
+    const edges = m.edges.map((e, j) => (j === index ? [e[0], e[1], x] : e));
+    const parsed = parseComputeRequest({ model: { ...m, edges }, blockLengths: 1, renyiOrders: [] });
+    if (!parsed.ok) {
+      points.push({ x, bits: null, reason: parsed.error.message });
+      continue;
+    }
+    try {
+      const r = computeUnverified(parsed.value);
+      points.push(r.entropyRate ? { x, bits: r.entropyRate.bits } : { x, bits: null, reason: r.message ?? "no single entropy rate" });
+    } catch (e) {
+      points.push({ x, bits: null, reason: e instanceof Error ? e.message : String(e) });
+    }
+  }
+  return points;
+}
+
+export function SweepChart({ model, valid, family, local }: { model: unknown; valid: boolean; family: string; local: boolean }) {
   const { unit } = useUnits();
   const choices = useMemo(() => sweepChoices(model), [model]);
   const [choiceId, setChoiceId] = useState<string>("");
   const [mounted, setMounted] = useState(false);
   useEffect(() => setMounted(true), []);
-  const choice = choices.find((c) => c.id === choiceId) ?? choices.find((c) => c.parameter.kind !== "entry" || c.parameter.row !== c.parameter.col) ?? choices[0];
+  const choice =
+    choices.find((c) => c.id === choiceId) ??
+    choices.find((c) => c.target.kind !== "engine" || c.target.parameter.kind !== "entry" || c.target.parameter.row !== c.target.parameter.col) ??
+    choices[0];
   const key = JSON.stringify(model);
   const [points, setPoints] = useState<SweepPoint[] | null>(null);
   const [problem, setProblem] = useState<string | null>(null);
@@ -228,7 +324,11 @@ export function SweepChart({ model, valid }: { model: unknown; valid: boolean })
     }
     const t = setTimeout(() => {
       try {
-        setPoints(sweepEntropyRate(model, { parameter: choice.parameter, from: 0, to: 1, steps: SWEEP_STEPS }).points);
+        setPoints(
+          choice.target.kind === "edge"
+            ? sweepEdge(model, choice.target.index, choice.from, choice.to, SWEEP_STEPS)
+            : sweepEntropyRate(model, { parameter: choice.target.parameter, from: choice.from, to: choice.to, steps: SWEEP_STEPS }).points,
+        );
         setProblem(null);
       } catch (e) {
         setPoints(null);
@@ -238,18 +338,23 @@ export function SweepChart({ model, valid }: { model: unknown; valid: boolean })
     return () => clearTimeout(t);
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [key, choice?.id, valid]);
-  const current = currentValue(model, choice?.parameter);
+  const current = currentValue(model, choice);
   const u = unitLabel(unit);
   const rows = (points ?? []).map((p) => ({ x: p.x, y: p.bits === null ? null : fromBits(p.bits, unit) }));
-  const caption = choice ? `Entropy rate (${u}) as ${choice.label} runs from 0 to 1${choice.parameter.kind !== "two-state" ? ", the rest of its row rescaled to keep the sum 1" : ""}; dashed line: the current value.` : "";
+  const gaps = (points ?? []).filter((p) => p.bits === null);
+  const caption = choice ? `Entropy rate (${u}) as ${choice.label} runs from ${choice.from} to ${Number(choice.to.toPrecision(6))}, ${choice.rule}; dashed line: the current value.` : "";
   return (
     <section aria-labelledby="sweep-title" className="card p-4">
       <h2 id="sweep-title" className="font-semibold">
         Sensitivity sweep
       </h2>
-      {choices.length === 0 ? (
-        <p className="mt-2 text-sm text-ink-soft" style={{ minHeight: CHART_HEIGHT }}>
-          A sweep varies one probability: it is offered for two-state chains, i.i.d. sources and Markov chains given by a matrix.
+      {choices.length === 0 || !local ? (
+        <p className="mt-2 text-sm text-ink-soft">
+          {!local && family !== "hidden"
+            ? "Sweeps run in your browser, for models of up to 64 states; this one is larger."
+            : family === "hidden"
+            ? "Not offered for hidden sources: every point would need the sandwich bounds computed afresh. Change one entry and watch the preview instead."
+            : "A sweep varies one probability or edge weight; this model lists too many entries to offer one."}
         </p>
       ) : (
         <>
@@ -264,13 +369,13 @@ export function SweepChart({ model, valid }: { model: unknown; valid: boolean })
             ))}
           </select>
           <figure className="mt-2">
-            <div style={{ height: CHART_HEIGHT }} role="img" aria-label={caption}>
+            <div style={{ height: CHART_HEIGHT }} role="img" aria-label={caption} data-testid="sweep-chart">
               {mounted && points && (
                 <LineChart responsive style={{ width: "100%", height: CHART_HEIGHT }} data={rows} margin={{ top: 8, right: 12, bottom: 20, left: 4 }}>
                   <CartesianGrid stroke="#e4dccb" strokeDasharray="2 4" />
-                  <XAxis dataKey="x" type="number" domain={[0, 1]} tick={{ fontSize: 11, fill: "#5a5247" }} label={{ value: choice?.label ?? "", position: "insideBottom", offset: -12, fontSize: 11, fill: "#26221d" }} />
+                  <XAxis dataKey="x" type="number" domain={[choice!.from, choice!.to]} tick={{ fontSize: 11, fill: "#5a5247" }} tickFormatter={(v: number) => String(Number(v.toPrecision(3)))} label={{ value: choice?.label ?? "", position: "insideBottom", offset: -12, fontSize: 11, fill: "#26221d" }} />
                   <YAxis tick={{ fontSize: 11, fill: "#5a5247" }} width={56} tickFormatter={(v: number) => v.toFixed(3)} />
-                  <Tooltip formatter={(v) => (typeof v === "number" ? `${v.toFixed(6)} ${u}` : "no single rate")} labelFormatter={(x) => `${choice?.label} = ${Number(x).toFixed(3)}`} />
+                  <Tooltip formatter={(v) => (typeof v === "number" ? `${v.toFixed(6)} ${u}` : "no single rate")} labelFormatter={(x) => `${choice?.label} = ${Number(x).toPrecision(4)}`} />
                   {current !== null && <ReferenceLine x={current} stroke={PLOT.reference} strokeDasharray="6 4" />}
                   <Line type="monotone" dataKey="y" stroke={PLOT.perSymbol} strokeWidth={2} dot={false} connectNulls={false} isAnimationActive={false} />
                 </LineChart>
@@ -278,7 +383,14 @@ export function SweepChart({ model, valid }: { model: unknown; valid: boolean })
               {!valid && <p className="pt-16 text-center text-sm text-ink-soft">The sweep appears when the parameters are valid.</p>}
               {problem && <p className="pt-16 text-center text-sm text-warn">{problem}</p>}
             </div>
-            <figcaption className="text-xs text-ink-soft">{caption}</figcaption>
+            <figcaption className="text-xs text-ink-soft">
+              {caption}
+              {valid && gaps.length > 0 && (
+                <span className="mt-1 block">
+                  Gaps: no single entropy rate at {gaps.length} of {SWEEP_STEPS} points ({gaps[0].reason}).
+                </span>
+              )}
+            </figcaption>
           </figure>
         </>
       )}
@@ -286,9 +398,42 @@ export function SweepChart({ model, valid }: { model: unknown; valid: boolean })
   );
 }
 
-function currentValue(model: unknown, p: SweepParameter | undefined): number | null {
-  if (!p) return null;
-  const m = model as { a?: unknown; b?: unknown; p?: unknown[]; P?: unknown[][] };
-  const v = p.kind === "two-state" ? m[p.name] : p.kind === "iid" ? m.p?.[p.index] : m.P?.[p.row]?.[p.col];
-  return typeof v === "number" && v >= 0 && v <= 1 ? v : null;
+function currentValue(model: unknown, choice: SweepChoice | undefined): number | null {
+  if (!choice) return null;
+  const m = model as { a?: unknown; b?: unknown; p?: unknown[]; P?: unknown[][]; edges?: unknown[][] };
+  const t = choice.target;
+  const v =
+    t.kind === "edge"
+      ? m.edges?.[t.index]?.[2]
+      : t.parameter.kind === "two-state"
+        ? m[t.parameter.name]
+        : t.parameter.kind === "iid"
+          ? m.p?.[t.parameter.index]
+          : m.P?.[t.parameter.row]?.[t.parameter.col];
+  return typeof v === "number" && v >= choice.from && v <= choice.to ? v : null;
+}
+
+/**
+ * On narrow screens the preview panel sits below the editor, out of sight while typing: this strip
+ * keeps the two headline figures pinned to the bottom of the window (hidden where the panel is beside the editor).
+ */
+export function PreviewStrip({ preview }: { preview: Preview }) {
+  const { unit } = useUnits();
+  const { state } = preview;
+  const shown = state.kind === "ready" ? state : preview.last;
+  const r = shown?.result ?? null;
+  const note = state.kind === "pending" ? "computing…" : state.kind === "invalid" ? "not valid yet" : state.kind === "failed" ? "not computed" : null;
+  return (
+    <div className="ws-strip" aria-hidden="true">
+      <span>
+        H <strong className="figures font-mono">{r ? formatRate(r.entropyRate, unit, 4) : "—"}</strong>
+      </span>
+      <span>
+        H<sub>∞</sub>{" "}
+        <strong className="figures font-mono">{r ? (r.family === "hidden" ? "n/a" : formatRate(r.minEntropyRate, unit, 4)) : "—"}</strong>
+      </span>
+      <span className="text-ink-soft">{unitLabel(unit)}</span>
+      {note && <span className="font-semibold text-warn">{note}</span>}
+    </div>
+  );
 }

@@ -26,25 +26,25 @@ export default function Workspace({ loaderData }: Route.ComponentProps) {
         Drafts you have cloned from a library edition or started yourself. Only you can see them until you submit one for review.
       </p>
       <div className="mt-6 grid gap-6 lg:grid-cols-[1fr_18rem]">
-        <section aria-labelledby="items-title">
+        <section aria-labelledby="items-title" className="min-w-0">
           <h2 id="items-title" className="sr-only">Your items</h2>
           {items.length === 0 ? (
             <div className="card p-6">
               <h3 className="font-semibold">No drafts yet</h3>
               <p className="mt-1 text-sm text-ink-soft">
-                To start from a published model, open it in the <Link to="/library">library</Link>, pick an edition and choose{" "}
-                <strong>Clone to workspace</strong>: its parameters are copied into a draft here and the edition it came from is remembered.
+                To start from a published model, open it in the <Link to="/library">library</Link> and choose <strong>Adjust a copy</strong>: the
+                edition's parameters are copied into a draft here and the edition it came from is remembered.
                 Or start a new item of any family with the form beside this list.
               </p>
             </div>
           ) : (
-            <div className="card overflow-x-auto">
+            <div className="card relative overflow-x-auto">
               <table className="w-full text-sm">
                 <thead>
                   <tr className="border-b border-rule text-left text-xs text-ink-soft">
                     <th scope="col" className="px-3 py-2">Title</th>
                     <th scope="col" className="px-3 py-2">Family</th>
-                    <th scope="col" className="px-3 py-2">Source</th>
+                    <th scope="col" className="px-3 py-2">Cloned from</th>
                     <th scope="col" className="px-3 py-2 text-right">Revision</th>
                     <th scope="col" className="px-3 py-2">Updated</th>
                   </tr>
@@ -56,8 +56,16 @@ export default function Workspace({ loaderData }: Route.ComponentProps) {
                         <Link to={`/workspace/${item.id}`}>{item.title}</Link>
                       </td>
                       <td className="px-3 py-2">{familyLabels[item.family]}</td>
-                      <td className="px-3 py-2 font-mono text-xs">
-                        {item.source ? <>cloned from <Link to={item.sourcePath!}>{item.source}</Link></> : "new"}
+                      <td className="px-3 py-2 text-xs">
+                        {item.sourceModel ? (
+                          <>
+                            <Link to={item.sourceModel.path}>{item.sourceModel.title}</Link>,{" "}
+                            <Link to={item.sourcePath!} className="whitespace-nowrap">edition {item.sourceModel.edition}</Link>
+                            <span className="mt-0.5 block font-mono break-all text-ink-soft">{item.source}</span>
+                          </>
+                        ) : (
+                          <span className="text-ink-soft">started here</span>
+                        )}
                       </td>
                       <td className="figures px-3 py-2 text-right font-mono">{item.revision}</td>
                       <td className="figures px-3 py-2 font-mono text-xs whitespace-nowrap">{when(item.updatedAt)}</td>

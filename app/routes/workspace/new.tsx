@@ -22,7 +22,12 @@ const createSchema = z.object({
   family: z.enum(FAMILIES, { error: `family must be one of ${FAMILIES.join(", ")}` }),
   title: z.string({ error: "a title is needed" }).trim().min(1, "a title is needed").max(TITLE_MAX, `a title has at most ${TITLE_MAX} characters`),
 });
-const cloneSchema = z.object({ intent: z.literal("clone"), slug: slugSchema, edition: editionSchema });
+const cloneSchema = z.object({
+  intent: z.literal("clone"),
+  slug: slugSchema,
+  edition: editionSchema,
+  title: z.string().trim().max(TITLE_MAX, `a title has at most ${TITLE_MAX} characters`).optional(),
+});
 
 type Errors = Partial<Record<"intent" | "family" | "title" | "slug" | "edition" | "form", string>>;
 
@@ -52,7 +57,7 @@ export async function action({ request }: Route.ActionArgs) {
   if (form.intent === "clone") {
     const parsed = cloneSchema.safeParse(form);
     if (!parsed.success) return data({ errors: fieldErrors(parsed.error) }, { status: 400 });
-    const id = await cloneEditionToWorkspace(user.id, parsed.data.slug, parsed.data.edition ?? null);
+    const id = await cloneEditionToWorkspace(user.id, parsed.data.slug, parsed.data.edition ?? null, parsed.data.title || undefined);
     if (!id) return data({ errors: { edition: "no such edition" } as Errors }, { status: 400 });
     return redirect(`/workspace/${id}`);
   }
@@ -81,15 +86,28 @@ export default function NewItem({ loaderData, actionData }: Route.ComponentProps
       <p className="eyebrow">Workspace</p>
       {clone ? (
         <>
-          <h1 className="mt-1 text-2xl font-bold">Clone {clone.title}</h1>
+          <h1 className="mt-1 text-2xl font-bold">Adjust a copy of {clone.title}</h1>
           <Form method="post" className="card mt-4 space-y-3 p-5">
             <input type="hidden" name="intent" value="clone" />
             <input type="hidden" name="slug" value={clone.slug} />
             <input type="hidden" name="edition" value={clone.number} />
             <p className="text-sm">
-              This copies the parameters of <code className="font-mono">{clone.key}</code> ({familyLabels[clone.family]}) into a private draft titled
-              “{clone.title} (copy)”. The published edition itself stays as it is.
+              This copies the parameters of <code className="font-mono">{clone.key}</code> ({familyLabels[clone.family]}) into a private draft in your workspace.
+              The draft remembers this edition; the published edition itself stays as it is.
             </p>
+            <div>
+              <label htmlFor="clone-title" className="block text-sm font-semibold">Title of your copy</label>
+              <input
+                id="clone-title"
+                name="title"
+                className="field mt-1"
+                defaultValue={`${clone.title} (copy)`.slice(0, TITLE_MAX)}
+                maxLength={TITLE_MAX}
+                aria-invalid={errors.title ? true : undefined}
+                aria-describedby={errors.title ? "clone-title-error" : undefined}
+              />
+              <Err id="clone-title-error" msg={errors.title} />
+            </div>
             {clone.retracted && (
               <p className="rounded border border-warn/40 bg-warn/5 p-2 text-sm" role="note">
                 <span aria-hidden="true">⚠ </span>This edition has been retracted; check its retraction reason before building on it.
@@ -98,7 +116,7 @@ export default function NewItem({ loaderData, actionData }: Route.ComponentProps
             <Err id="clone-error" msg={errors.edition ?? errors.slug} />
             <div className="flex gap-2">
               <button type="submit" className="btn btn-primary" disabled={busy}>
-                Clone to workspace
+                Copy to my workspace
               </button>
               <Link to={`/library/${clone.slug}/e/${clone.number}`} className="btn btn-quiet">
                 Back to the edition
