@@ -111,65 +111,117 @@ function nodeWeights(nodes: number, edges: WeightedEdges): Float64Array {
 
 /**
  * The random walk on an undirected weighted graph, in closed form: μᵢ = Wᵢ/2W and
- * H = H({Wᵢⱼ/2W}) − H({Wᵢ/2W}) (the walk is reversible; Levin, Peres and Wilmer, ch. 1–2), with
- * parallel edges merged first. No linear solve. The graph is assumed connected (the caller checks
- * components). O(nodes + edges). Throws EngineNumericError on an index out of range, a negative or
- * non-finite weight, or a node without edges.
+ * H = H({wᵢⱼ/2W}) − H({Wᵢ/2W}) (the walk is reversible; Levin, Peres and Wilmer, ch. 1–2), with
+ * parallel edges merged first. Expanded, that is H = (Σᵢ Wᵢ log₂ Wᵢ − Σ₍ᵢ,ⱼ₎ wᵢⱼ log₂ wᵢⱼ) / 2W over
+ * ordered pairs, which needs one logarithm per node and per merged edge and no linear solve. The
+ * graph is assumed connected (the caller checks components). O(nodes + edges) time and memory.
+ * Throws EngineNumericError on an index out of range, a negative or non-finite weight, or a node
+ * without edges.
  */
 export function graphWalkClosedForm(nodes: number, edges: WeightedEdges): { rate: Rate; stationary: Float64Array } {
-  checkEdges(nodes, edges);
-  const W = nodeWeights(nodes, edges);
-  const m = edges.u.length;
+  if (!Number.isInteger(nodes) || nodes < 1) throw new EngineNumericError(`graph walk: node count must be a positive integer, got ${nodes}`);
   const { u, v, w } = edges;
-  const totalAcc = new Accumulator();
-  for (let i = 0; i < nodes; i++) totalAcc.add(W[i]);
-  const twoW = totalAcc.value();
-  const log2TwoW = Math.log2(twoW);
+  const m = u.length;
+  if (v.length !== m || w.length !== m) throw new EngineNumericError("graph walk: u, v and w must have the same length");
 
-  // Merge parallel edges: bucket by min endpoint (counting sort), then mark max endpoints per bucket.
-  const start = new Int32Array(nodes + 1);
-  for (let e = 0; e < m; e++) start[Math.min(u[e], v[e]) + 1]++;
-  for (let i = 0; i < nodes; i++) start[i + 1] += start[i];
-  const fill = start.slice(0, nodes);
-  const order = new Int32Array(m);
-  for (let e = 0; e < m; e++) order[fill[Math.min(u[e], v[e])]++] = e;
-  const mark = new Int32Array(nodes).fill(-1);
-  const slot = new Int32Array(nodes);
-  const merged = new Float64Array(m);
-  const isLoop = new Uint8Array(m);
-  let k = 0;
-  for (let a = 0; a < nodes; a++) {
-    for (let q = start[a]; q < start[a + 1]; q++) {
-      const e = order[q];
-      const b = Math.max(u[e], v[e]);
-      if (mark[b] === a) merged[slot[b]] += w[e];
-      else {
-        mark[b] = a;
-        slot[b] = k;
-        merged[k] = w[e];
-        isLoop[k] = a === b ? 1 : 0;
-        k++;
+  // Parallel edges are merged per unordered pair {lo, hi}. Sorting all edges by lo scatters them
+  // over the whole array (a cache miss per edge); instead they are partitioned by lo's block of
+  // 2^SH consecutive nodes (few write streams) and merged inside each block with a small hash
+  // table that stays in cache. The key hi·2^SH + (lo mod 2^SH) must fit a non-negative int32.
+  let SH = 9;
+  while (SH > 0 && nodes * 2 ** SH > 2 ** 31) SH--;
+  const LOW = (1 << SH) - 1;
+  const blocks = ((nodes - 1) >>> SH) + 1;
+
+  // Pass 1: check each edge, node weights, block sizes.
+  const W = new Float64Array(nodes);
+  const blockStart = new Int32Array(blocks + 1);
+  for (let e = 0; e < m; e++) {
+    const a = u[e];
+    const b = v[e];
+    if (!(a >= 0 && a < nodes) || !(b >= 0 && b < nodes)) throw new EngineNumericError(`graph walk: edge ${e} joins ${a} and ${b}, outside 0…${nodes - 1}`);
+    const x = w[e];
+    if (!(x >= 0) || x === Infinity) throw new EngineNumericError(`graph walk: edge ${e} has weight ${x}; weights must be finite and ≥ 0`);
+    W[a] += x;
+    if (a !== b) W[b] += x;
+    blockStart[((a < b ? a : b) >>> SH) + 1]++;
+  }
+  // Node pass: 2W and Σ Wᵢ log₂ Wᵢ, both compensated.
+  const total = new Accumulator();
+  const nodeTerm = new Accumulator();
+  for (let i = 0; i < nodes; i++) {
+    const x = W[i];
+    if (!(x > 0)) throw new EngineNumericError(`graph walk: node ${i} has no edges`);
+    total.add(x);
+    nodeTerm.add(x * Math.log2(x));
+  }
+  const twoW = total.value();
+  if (!(twoW >= 2 ** -900 && twoW <= 2 ** 900)) {
+    // x·log₂x could overflow or lose its last bits: rescale by a power of two (exact; the walk
+    // does not change when every weight is multiplied by the same factor).
+    const scale = 2 ** -Math.round(Math.log2(twoW));
+    return graphWalkClosedForm(nodes, { u, v, w: Float64Array.from(w, (x) => x * scale) });
+  }
+  let maxBlock = 0;
+  for (let k = 0; k < blocks; k++) {
+    if (blockStart[k + 1] > maxBlock) maxBlock = blockStart[k + 1];
+    blockStart[k + 1] += blockStart[k];
+  }
+
+  // Pass 2: scatter (key, weight) pairs into their blocks.
+  const fill = blockStart.slice(0, blocks);
+  const pairs = new Float64Array(2 * m);
+  for (let e = 0; e < m; e++) {
+    const a = u[e];
+    const b = v[e];
+    const lo = a < b ? a : b;
+    const p = 2 * fill[lo >>> SH]++;
+    pairs[p] = ((a < b ? b : a) << SH) | (lo & LOW);
+    pairs[p + 1] = w[e];
+  }
+
+  // Pass 3: per block, merge equal keys (open addressing, Fibonacci hashing) and add
+  // c·x log₂ x for each merged edge (c = 2 for the two directions, 1 for a loop); a later parallel
+  // edge replaces its pair's term by the merged one. Neumaier summation, inlined.
+  let capBits = 4;
+  while (1 << capBits < 2 * maxBlock) capBits++;
+  const mask = (1 << capBits) - 1;
+  const hashShift = 32 - capBits;
+  const stamp = new Int32Array(mask + 1).fill(-1);
+  const tableKey = new Int32Array(mask + 1);
+  const tableWeight = new Float64Array(mask + 1);
+  let sum = 0;
+  let comp = 0;
+  for (let k = 0; k < blocks; k++) {
+    const base = k << SH;
+    for (let q = blockStart[k]; q < blockStart[k + 1]; q++) {
+      const key = pairs[2 * q] | 0;
+      const x = pairs[2 * q + 1];
+      let h = Math.imul(key, 0x9e3779b1) >>> hashShift;
+      while (stamp[h] === k && tableKey[h] !== key) h = (h + 1) & mask;
+      const c = (base | (key & LOW)) === key >>> SH ? 1 : 2;
+      let term: number;
+      if (stamp[h] === k) {
+        const old = tableWeight[h];
+        const merged = old + x;
+        tableWeight[h] = merged;
+        term = c * ((merged > 0 ? merged * Math.log2(merged) : 0) - (old > 0 ? old * Math.log2(old) : 0));
+      } else {
+        stamp[h] = k;
+        tableKey[h] = key;
+        tableWeight[h] = x;
+        term = x > 0 ? c * x * Math.log2(x) : 0;
       }
+      const t = sum + term;
+      if (Math.abs(sum) >= Math.abs(term)) comp += sum - t + term;
+      else comp += term - t + sum;
+      sum = t;
     }
   }
-  // H(edges): each merged non-loop edge is two directed entries of mass w/2W; a loop is one.
-  // −q log₂ q with q = w/2W is q·(log₂ 2W − log₂ w).
-  const hEdges = new Accumulator();
-  for (let t = 0; t < k; t++) {
-    const x = merged[t];
-    if (x <= 0) continue;
-    const q = x / twoW;
-    const term = q * (log2TwoW - Math.log2(x));
-    hEdges.add(isLoop[t] ? term : 2 * term);
-  }
-  const stationary = new Float64Array(nodes);
-  const hNodes = new Accumulator();
-  for (let i = 0; i < nodes; i++) {
-    const q = W[i] / twoW;
-    stationary[i] = q;
-    hNodes.add(q * (log2TwoW - Math.log2(W[i])));
-  }
-  return { rate: rate(hEdges.value() - hNodes.value()), stationary };
+  const edgeTerm = sum + comp;
+  const stationary = W;
+  for (let i = 0; i < nodes; i++) stationary[i] /= twoW;
+  return { rate: rate((nodeTerm.value() - edgeTerm) / twoW), stationary };
 }
 
 /**
