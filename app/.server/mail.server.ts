@@ -292,13 +292,13 @@ export function proposalDeclinedMail(input: { proposalId: string; title: string;
 }
 
 /** To the author: someone commented on the proposal. */
-export function newCommentMail(input: { proposalId: string; title: string; commenterName: string; comment: string }): MailContent {
+export function newCommentMail(input: { proposalId: string; title: string; commenterName: string; comment: string; forCurators?: boolean }): MailContent {
   return render({
     subject: `New comment on ${input.title}`,
     heading: `${input.commenterName} commented on “${input.title}”`,
     paragraphs: [],
     quote: { label: "The comment", body: input.comment },
-    link: { label: "Read and reply", href: link(mailPaths.authorProposal(input.proposalId)) },
+    link: { label: "Read and reply", href: link(input.forCurators ? mailPaths.review(input.proposalId) : mailPaths.authorProposal(input.proposalId)) },
   });
 }
 

@@ -167,7 +167,17 @@ export const proposals = pgTable(
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index("proposals_state").on(t.state), index("proposals_author").on(t.authorId)],
+  (t) => [
+    index("proposals_state").on(t.state),
+    index("proposals_author").on(t.authorId),
+    // One open proposal per workspace item, and one open claim per new slug, even under a race.
+    uniqueIndex("proposals_one_open_per_item")
+      .on(t.itemId)
+      .where(sql`${t.state} in ('submitted', 'changes-requested', 'resubmitted')`),
+    uniqueIndex("proposals_one_open_per_slug")
+      .on(t.proposedSlug)
+      .where(sql`${t.state} in ('submitted', 'changes-requested', 'resubmitted')`),
+  ],
 );
 
 export const reviewComments = pgTable(

@@ -1,0 +1,2 @@
+CREATE UNIQUE INDEX "proposals_one_open_per_item" ON "proposals" USING btree ("item_id") WHERE "proposals"."state" in ('submitted', 'changes-requested', 'resubmitted');--> statement-breakpoint
+CREATE UNIQUE INDEX "proposals_one_open_per_slug" ON "proposals" USING btree ("proposed_slug") WHERE "proposals"."state" in ('submitted', 'changes-requested', 'resubmitted');
