@@ -22,12 +22,17 @@ export default [
     ...prefix("workspace", [
       index("routes/workspace/index.tsx"),
       route("new", "routes/workspace/new.tsx"),
+      route("proposals", "routes/workspace/proposals.tsx"),
+      route("proposals/:id", "routes/workspace/proposal.tsx"),
       route(":id", "routes/workspace/item.tsx"),
+      route(":id/submit", "routes/workspace/submit.tsx"),
     ]),
   ]),
 
   // Curators' review
-  layout("routes/review/layout.tsx", [...prefix("review", [index("routes/review/index.tsx")])]),
+  layout("routes/review/layout.tsx", [
+    ...prefix("review", [index("routes/review/index.tsx"), route(":id", "routes/review/proposal.tsx")]),
+  ]),
 
   // Administration
   layout("routes/admin/layout.tsx", [...prefix("admin", [index("routes/admin/index.tsx")])]),

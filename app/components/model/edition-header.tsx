@@ -28,6 +28,9 @@ export function EditionHeader({ page }: { page: ModelPageData }) {
         ) : (
           <a href={`/library/${model.slug}`}>Model page (current edition)</a>
         )}
+        <a href={`/workspace/new?slug=${encodeURIComponent(model.slug)}&edition=${edition.number}`} className="mp-screen-only" data-testid="adjust-copy">
+          Adjust a copy in your workspace
+        </a>
       </p>
       {model.tags.length > 0 && (
         <ul className="mt-2 flex flex-wrap gap-1.5" aria-label="Tags">

@@ -1,6 +1,8 @@
 import { Form, Link } from "react-router";
 import { requireContributor } from "~/.server/auth.server";
+import { listAuthorProposals } from "~/.server/proposals.server";
 import { listWorkspaceItems } from "~/.server/workspace.server";
+import { openProposalStates } from "~/proposal-forms";
 import { FAMILIES } from "~/engine";
 import { familyLabels } from "~/families";
 import type { Route } from "./+types/index";
@@ -9,7 +11,9 @@ export const meta: Route.MetaFunction = () => [{ title: "Workspace · Ergoshelf"
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireContributor(request);
-  return { items: await listWorkspaceItems(user.id) };
+  const [items, proposals] = await Promise.all([listWorkspaceItems(user.id), listAuthorProposals(user.id)]);
+  const open = proposals.filter((p) => openProposalStates.includes(p.state));
+  return { items, proposalCount: proposals.length, openCount: open.length, waitingOnYou: open.filter((p) => p.state === "changes-requested").length };
 }
 
 function when(d: Date | string): string {
@@ -17,13 +21,23 @@ function when(d: Date | string): string {
 }
 
 export default function Workspace({ loaderData }: Route.ComponentProps) {
-  const { items } = loaderData;
+  const { items, proposalCount, openCount, waitingOnYou } = loaderData;
   return (
     <div>
       <p className="eyebrow">Private to you</p>
       <h1 className="mt-1 text-3xl font-bold">Workspace</h1>
       <p className="mt-2 max-w-2xl text-ink-soft">
         Drafts you have cloned from a library edition or started yourself. Only you can see them until you submit one for review.
+      </p>
+      <p className="mt-3 text-sm" data-testid="proposals-link">
+        <Link to="/workspace/proposals" className="font-semibold">
+          My proposals
+        </Link>{" "}
+        <span className="text-ink-soft">
+          {proposalCount === 0
+            ? "(none yet)"
+            : `(${openCount} open of ${proposalCount}${waitingOnYou ? `; ${waitingOnYou} with changes requested, waiting for you` : ""})`}
+        </span>
       </p>
       <div className="mt-6 grid gap-6 lg:grid-cols-[1fr_18rem]">
         <section aria-labelledby="items-title" className="min-w-0">

@@ -2,6 +2,8 @@ import { useEffect, useMemo, useRef, useState } from "react";
 import { data, Form, Link, redirect, useFetcher, useRevalidator } from "react-router";
 import { z } from "zod";
 import { requireContributor } from "~/.server/auth.server";
+import { openProposalOfItem } from "~/.server/proposals.server";
+import { proposalStateLabels } from "~/proposal-forms";
 import {
   deleteWorkspaceItem,
   getWorkspaceItem,
@@ -32,7 +34,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireContributor(request);
   const item = await getWorkspaceItem(user.id, params.id);
   if (!item) notFound();
-  return { item };
+  return { item, openProposal: await openProposalOfItem(item.id) };
 }
 
 const revisionField = z
@@ -146,7 +148,7 @@ function SavedFiguresNote({ revision, figures }: { revision: number; figures: Sa
 }
 
 export default function WorkspaceItemPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { item } = loaderData;
+  const { item, openProposal } = loaderData;
   const save = useFetcher<ItemActionData>({ key: `save-${item.id}` });
   const restore = useFetcher<ItemActionData>();
   const revalidator = useRevalidator();
@@ -380,9 +382,19 @@ export default function WorkspaceItemPage({ loaderData, actionData }: Route.Comp
             proposal keeps a frozen copy; you can go on editing here.
           </p>
           {dirty && <p className="mt-2 text-sm text-warn"><span aria-hidden="true">⚠ </span>Your unsaved changes are not part of revision {item.revision}: save them first.</p>}
-          <Link to={`/workspace/${item.id}/submit`} className="btn btn-primary mt-3" data-testid="submit-for-review">
-            Submit for review
-          </Link>
+          {openProposal ? (
+            <p className="mt-2 text-sm" data-testid="open-proposal">
+              This item has an open proposal ({proposalStateLabels[openProposal.state].toLowerCase()}).{" "}
+              <Link to={`/workspace/proposals/${openProposal.id}`} className="font-semibold">
+                Open the proposal
+              </Link>
+              {openProposal.state === "changes-requested" ? " to resubmit this revision." : "."}
+            </p>
+          ) : (
+            <Link to={`/workspace/${item.id}/submit`} className="btn btn-primary mt-3" data-testid="submit-for-review">
+              Submit for review
+            </Link>
+          )}
         </section>
         <section className="card p-4" aria-labelledby="history-title">
           <h2 id="history-title" className="font-semibold">Revision history</h2>
