@@ -39,11 +39,18 @@ run "unit + reference" node_modules/.bin/vitest run --project unit --project ref
   --reporter=default --reporter=json --outputFile.json="$RESULTS/vitest-pure.json"
 
 ensure_build
+# The test server sends its review mail to its own fake SMTP server and mailbox folder, which
+# the proposal tests read back (the demo's mailbox under .data/mail is left alone).
+export SMTP_PORT=${ERGOSHELF_TEST_SMTP_PORT:-$((ERGOSHELF_TEST_DB_PORT - 51804))} ERGOSHELF_MAIL_FAKE=1
+export ERGOSHELF_MAIL_DIR="$ERGOSHELF_DATA_DIR/mail-test"
+rm -rf "$ERGOSHELF_MAIL_DIR"
+node_modules/.bin/tsx scripts/mail-fake.ts >"$RESULTS/mail-fake.log" 2>&1 &
+mail_pid=$!
 APP_PORT=${ERGOSHELF_TEST_APP_PORT:-$((ERGOSHELF_TEST_DB_PORT - 15000))}
 export ERGOSHELF_TEST_BASE_URL="http://127.0.0.1:$APP_PORT"
 HOST=127.0.0.1 PORT=$APP_PORT node_modules/.bin/react-router-serve build/server/index.js >"$RESULTS/server.log" 2>&1 &
 server_pid=$!
-trap 'kill $server_pid 2>/dev/null || true' EXIT
+trap 'kill $server_pid $mail_pid 2>/dev/null || true' EXIT
 for _ in $(seq 1 100); do
   curl -sf "$ERGOSHELF_TEST_BASE_URL/healthz" >/dev/null 2>&1 && break
   kill -0 $server_pid 2>/dev/null || { cat "$RESULTS/server.log"; break; }
@@ -54,5 +61,5 @@ run "integration" node_modules/.bin/vitest run --project integration \
   --reporter=default --reporter=json --outputFile.json="$RESULTS/vitest-integration.json"
 run "end-to-end" node_modules/.bin/playwright test
 
-kill $server_pid 2>/dev/null || true
+kill $server_pid $mail_pid 2>/dev/null || true
 node scripts/test-summary.mjs "$RESULTS" "${failed[*]:-}" "$SECONDS"

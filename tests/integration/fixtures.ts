@@ -19,15 +19,19 @@ export interface TestUser {
 
 const created: string[] = [];
 
-/** A fresh user of the given role with a signed-in session. */
-export async function createUser(role: Role, opts: { disabled?: boolean } = {}): Promise<TestUser> {
+/**
+ * A fresh user of the given role with a signed-in session. `keep` leaves the user in the test
+ * database afterwards: a user who published an edition cannot be removed, since editions are
+ * immutable and name their publisher.
+ */
+export async function createUser(role: Role, opts: { disabled?: boolean; keep?: boolean } = {}): Promise<TestUser> {
   const email = `t-${role}-${randomBytes(5).toString("hex")}@test.invalid`;
   const password = `pw-${randomBytes(8).toString("hex")}`;
   const [row] = await db()
     .insert(users)
     .values({ email, name: `Test ${role}`, role, passwordHash: await hashPassword(password), disabled: opts.disabled ?? false })
     .returning({ id: users.id });
-  created.push(row.id);
+  if (!opts.keep) created.push(row.id);
   const cookie = await createSessionCookieHeader(row.id);
   return { id: row.id, email, password, role, cookie };
 }
