@@ -31,7 +31,11 @@ export default [
 
   // Curators' review
   layout("routes/review/layout.tsx", [
-    ...prefix("review", [index("routes/review/index.tsx"), route(":id", "routes/review/proposal.tsx")]),
+    ...prefix("review", [
+      index("routes/review/index.tsx"),
+      route("retract/:slug/:edition", "routes/review/retract.tsx"),
+      route(":id", "routes/review/proposal.tsx"),
+    ]),
   ]),
 
   // Administration

@@ -11,6 +11,8 @@ const matrix: Record<string, Record<Who, number>> = {
   "/library": { visitor: 200, contributor: 200, curator: 200, admin: 200 },
   "/workspace": { visitor: 302, contributor: 200, curator: 200, admin: 200 },
   "/review": { visitor: 302, contributor: 403, curator: 200, admin: 200 },
+  "/workspace/proposals": { visitor: 302, contributor: 200, curator: 200, admin: 200 },
+  "/review/retract/buoy-k05-sea-state-hourly/1": { visitor: 302, contributor: 403, curator: 200, admin: 200 },
   "/admin": { visitor: 302, contributor: 403, curator: 403, admin: 200 },
   "/healthz": { visitor: 200, contributor: 200, curator: 200, admin: 200 },
   "/no-such-page": { visitor: 404, contributor: 404, curator: 404, admin: 404 },

@@ -67,3 +67,30 @@ export function postJson(path: string, body: unknown, headers: Record<string, st
     body: typeof body === "string" ? body : JSON.stringify(body),
   });
 }
+
+function redirectId(res: Response, prefix: string): string {
+  const loc = res.headers.get("location") ?? "";
+  const m = new RegExp(`^${prefix}([0-9a-f-]{36})$`).exec(loc);
+  if (!m) throw new Error(`expected a redirect to ${prefix}…, got ${res.status} ${loc}`);
+  return m[1];
+}
+
+/**
+ * Publishes a new i.i.d. model the way users do: `author` saves an item with each distribution in
+ * turn and proposes it, `curator` accepts; one edition per distribution. Returns the slug.
+ */
+export async function publishThroughReview(author: TestUser, curator: TestUser, slug: string, distributions: number[][]): Promise<string> {
+  const iid = (p: number[]) => JSON.stringify({ family: "iid", alphabet: p.map((_, i) => `s${i}`), p });
+  for (const [n, p] of distributions.entries()) {
+    let itemId: string;
+    if (n === 0) itemId = redirectId(await postForm("/workspace/new", { intent: "create", family: "iid", title: `Fixture ${slug}` }, author.cookie), "/workspace/");
+    else itemId = redirectId(await postForm("/workspace/new", { intent: "clone", slug, edition: String(n) }, author.cookie), "/workspace/");
+    const saved = await postForm(`/workspace/${itemId}`, { intent: "save", revision: "1", title: `Fixture ${slug}`, notes: "", params: iid(p) }, author.cookie);
+    if (saved.status !== 200) throw new Error(`saving the fixture item answered ${saved.status}`);
+    const form: Record<string, string> = n === 0 ? { kind: "new-model", changeNote: "Fixture", slug, title: `Fixture ${slug}`, summary: "A fixture model for the tests.", tags: "fixture" } : { kind: "new-edition", changeNote: `Fixture edition ${n + 1}` };
+    const proposalId = redirectId(await postForm(`/workspace/${itemId}/submit`, form, author.cookie), "/workspace/proposals/");
+    const accepted = await postForm(`/review/${proposalId}`, { intent: "decide", decision: "accept", note: "Fixture" }, curator.cookie);
+    if (accepted.status !== 302) throw new Error(`accepting the fixture proposal answered ${accepted.status}: ${await accepted.text()}`);
+  }
+  return slug;
+}

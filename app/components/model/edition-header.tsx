@@ -1,5 +1,7 @@
 /** The page header: title, family, slug, edition, date, tags, and the retraction / supersession notices. */
+import { useRouteLoaderData } from "react-router";
 import { familyLabels } from "~/families";
+import { can, type SessionUser } from "~/permissions";
 import type { ModelPageData } from "~/.server/model-page.server";
 import { formatDate } from "./format";
 
@@ -7,6 +9,7 @@ export function EditionHeader({ page }: { page: ModelPageData }) {
   const { model, edition, editions, currentNumber } = page;
   const retracted = Boolean(edition.retractedAt);
   const newer = currentNumber !== null && currentNumber > edition.number;
+  const viewer = useRouteLoaderData<{ user: SessionUser | null }>("root")?.user ?? null;
   return (
     <header className="mp-header">
       <p className="eyebrow">
@@ -31,6 +34,11 @@ export function EditionHeader({ page }: { page: ModelPageData }) {
         <a href={`/workspace/new?slug=${encodeURIComponent(model.slug)}&edition=${edition.number}`} className="mp-screen-only" data-testid="adjust-copy">
           Adjust a copy in your workspace
         </a>
+        {can(viewer, "edition:retract") && !retracted && (
+          <a href={`/review/retract/${encodeURIComponent(model.slug)}/${edition.number}`} className="mp-screen-only" data-testid="retract-link">
+            Retract this edition…
+          </a>
+        )}
       </p>
       {model.tags.length > 0 && (
         <ul className="mt-2 flex flex-wrap gap-1.5" aria-label="Tags">
