@@ -6,7 +6,10 @@
  * stateless and several may run against one database, so before answering, a search checks at
  * most once a second a cheap "library version" (edition and model counts and their newest
  * timestamps) and rebuilds when it changed; the publishing path may also call
- * `invalidateSearchIndex()` to have the next search rebuild at once. See docs/decisions/0005-search.md.
+ * `invalidateSearchIndex()` to have the next search rebuild at once. Each index keeps the matches
+ * of single words (so typing recomputes only the word being typed) and of whole query texts (so a
+ * facet click or a page turn recomputes none); both go with the index when it is rebuilt.
+ * See docs/decisions/0005-search.md.
  */
 import MiniSearch, { type SearchOptions } from "minisearch";
 import { sql } from "drizzle-orm";
@@ -60,6 +63,11 @@ const MAX_TAG_FACETS = 60;
 const VERSION_CHECK_MS = 1000;
 /** Text matches kept per index, by query text: typing and facet clicks repeat the same words. */
 const TEXT_CACHE_SIZE = 256;
+/**
+ * Matches of single words, kept across queries up to this many (document, score) pairs in all
+ * (12 bytes each): typing "buoy uplink b…" recomputes only the word being typed.
+ */
+const WORD_CACHE_ENTRIES = 2_000_000;
 
 /** Words too common to tell models apart; left out of the index and of queries. */
 const STOP_WORDS = new Set(["a", "an", "and", "as", "at", "by", "for", "from", "in", "into", "is", "it", "its", "of", "on", "or", "the", "to", "with"]);
@@ -84,6 +92,8 @@ const TEXT_OPTIONS: SearchOptions = {
 };
 
 interface Doc {
+  /** The document's position in BuiltIndex.all, and its id in the minisearch index. */
+  id: number;
   slug: string;
   title: string;
   family: string;
@@ -100,16 +110,21 @@ interface Doc {
   names: string;
   titleRank: number;
   updatedRank: number;
+  /** Index into FAMILIES (facet counting without a Map lookup per match). */
+  familyIndex: number;
+  /** Indices into STATE_RANGES of the ranges holding `states`. */
+  stateRanges: number[];
 }
 
 interface BuiltIndex {
   version: string;
   mini: MiniSearch;
-  docs: Map<string, Doc>;
   all: Doc[];
   /** The display form of each tag (the first spelling met), by tag id. */
   tagValues: string[];
   textCache: Map<string, Candidate[]>;
+  wordCache: Map<string, WordHits>;
+  wordCacheEntries: number;
   builtInMs: number;
 }
 
@@ -178,9 +193,12 @@ async function buildIndex(includeSynthetic: boolean): Promise<BuiltIndex> {
     where ${includeSynthetic ? sql`true` : sql`not m.is_synthetic`}
     order by m.id, (e.retracted_at is null) desc, e.number desc`);
 
-  const all: Doc[] = (result.rows as Record<string, unknown>[]).map((r) => {
+  const familyIndex = new Map<string, number>(FAMILIES.map((f, i) => [f, i]));
+  const all: Doc[] = (result.rows as Record<string, unknown>[]).map((r, id) => {
     const tags = (r.tags as string[] | null) ?? [];
+    const states = numberOrNull(r.states);
     return {
+      id,
       slug: String(r.slug),
       title: String(r.title),
       family: String(r.family),
@@ -188,7 +206,7 @@ async function buildIndex(includeSynthetic: boolean): Promise<BuiltIndex> {
       tags,
       tagKeys: tags.map(tagKey),
       latestEdition: Number(r.number),
-      states: numberOrNull(r.states),
+      states,
       entropyRateBits: numberOrNull(r.rate),
       minEntropyRateBits: numberOrNull(r.min_rate),
       updatedAt: r.updated_at instanceof Date ? r.updated_at : new Date(String(r.updated_at)),
@@ -196,6 +214,8 @@ async function buildIndex(includeSynthetic: boolean): Promise<BuiltIndex> {
       titleRank: 0,
       updatedRank: 0,
       tagIds: [],
+      familyIndex: familyIndex.get(String(r.family)) ?? -1,
+      stateRanges: states === null ? [] : STATE_RANGES.flatMap((g, i) => (states >= g.min && (g.max === null || states <= g.max) ? [i] : [])),
     };
   });
   const tagIds = new Map<string, number>();
@@ -220,7 +240,7 @@ async function buildIndex(includeSynthetic: boolean): Promise<BuiltIndex> {
     .forEach((d, i) => (d.titleRank = i));
   [...all].sort((a, b) => a.updatedAt.getTime() - b.updatedAt.getTime() || a.titleRank - b.titleRank).forEach((d, i) => (d.updatedRank = i));
 
-  const mini = new MiniSearch<{ id: string; title: string; summary: string; tags: string; family: string; names: string }>({
+  const mini = new MiniSearch<{ id: number; title: string; summary: string; tags: string; family: string; names: string }>({
     fields: ["title", "summary", "tags", "family", "names"],
     storeFields: [],
     processTerm,
@@ -228,7 +248,7 @@ async function buildIndex(includeSynthetic: boolean): Promise<BuiltIndex> {
   });
   mini.addAll(
     all.map((d) => ({
-      id: d.slug,
+      id: d.id,
       title: d.title,
       summary: d.summary,
       tags: d.tags.join(" "),
@@ -236,7 +256,7 @@ async function buildIndex(includeSynthetic: boolean): Promise<BuiltIndex> {
       names: d.names,
     })),
   );
-  return { version, mini, docs: new Map(all.map((d) => [d.slug, d])), all, tagValues, textCache: new Map(), builtInMs: performance.now() - started };
+  return { version, mini, all, tagValues, textCache: new Map(), wordCache: new Map(), wordCacheEntries: 0, builtInMs: performance.now() - started };
 }
 
 /** The current index for these options, built or refreshed as needed. */
@@ -297,19 +317,106 @@ function textMatches(index: BuiltIndex, q: string): Candidate[] {
 
 /** Clears the cached text matches (the benchmark times uncached searches with it). */
 export function clearSearchTextCache(): void {
-  for (const s of slots.values()) s.index?.textCache.clear();
+  for (const s of slots.values()) {
+    if (!s.index) continue;
+    s.index.textCache.clear();
+    s.index.wordCache.clear();
+    s.index.wordCacheEntries = 0;
+  }
+}
+
+/** One word's matches: document ids (positions in BuiltIndex.all) and minisearch's score of the word alone. */
+interface WordHits {
+  ids: Int32Array;
+  scores: Float64Array;
+}
+
+const tokenize = MiniSearch.getDefault("tokenize") as (text: string) => string[];
+
+/** The query's terms as minisearch derives them: its tokenizer, then processTerm. */
+export function queryTerms(q: string): string[] {
+  return tokenize(q)
+    .map((t) => processTerm(t))
+    .filter((t): t is string => !!t);
+}
+
+function wordHits(index: BuiltIndex, term: string): WordHits {
+  const cached = index.wordCache.get(term);
+  if (cached) {
+    index.wordCache.delete(term); // least recently used goes first
+    index.wordCache.set(term, cached);
+    return cached;
+  }
+  const hits = index.mini.search(term);
+  const found: WordHits = { ids: new Int32Array(hits.length), scores: new Float64Array(hits.length) };
+  for (let i = 0; i < hits.length; i++) {
+    found.ids[i] = hits[i].id as number;
+    found.scores[i] = hits[i].score;
+  }
+  index.wordCache.set(term, found);
+  index.wordCacheEntries += hits.length;
+  while (index.wordCacheEntries > WORD_CACHE_ENTRIES && index.wordCache.size > 1) {
+    const [oldest, entry] = index.wordCache.entries().next().value!;
+    index.wordCache.delete(oldest);
+    index.wordCacheEntries -= entry.ids.length;
+  }
+  return found;
+}
+
+/**
+ * Combines per-word matches exactly as minisearch combines the terms of one query: a document's
+ * score is the sum of its words' scores, in query order, times the number of distinct words it
+ * matched. With `all`, only documents matching every word count (AND), else any word (OR).
+ */
+function combineWords(index: BuiltIndex, terms: string[], all: boolean): Candidate[] {
+  const n = index.all.length;
+  const lists = terms.map((t) => wordHits(index, t));
+  const sum = new Float64Array(n);
+  const seen = new Int32Array(n); // AND: how many of the words so far matched; OR: distinct words matched
+  const touched = new Uint8Array(n);
+  const distinct = [...new Set(terms)];
+  const out: Candidate[] = [];
+  if (all) {
+    lists.forEach((list, w) => {
+      for (let i = 0; i < list.ids.length; i++) {
+        const id = list.ids[i];
+        if (seen[id] !== w) continue;
+        sum[id] += list.scores[i];
+        seen[id] = w + 1;
+      }
+    });
+    const last = lists[lists.length - 1];
+    for (let i = 0; i < last.ids.length; i++) {
+      const id = last.ids[i];
+      if (seen[id] === lists.length) out.push({ doc: index.all[id], score: sum[id] * distinct.length });
+    }
+    return out;
+  }
+  const order: number[] = [];
+  for (const list of lists) {
+    for (let i = 0; i < list.ids.length; i++) {
+      const id = list.ids[i];
+      if (!touched[id]) {
+        touched[id] = 1;
+        order.push(id);
+      }
+      sum[id] += list.scores[i];
+    }
+  }
+  for (const t of distinct) {
+    const list = lists[terms.indexOf(t)];
+    for (let i = 0; i < list.ids.length; i++) seen[list.ids[i]]++;
+  }
+  for (const id of order) out.push({ doc: index.all[id], score: sum[id] * seen[id] });
+  return out;
 }
 
 function findText(index: BuiltIndex, q: string): Candidate[] {
   if (q === "") return index.all.map((doc) => ({ doc, score: null }));
-  let hits = index.mini.search(q, { combineWith: "AND" });
-  if (hits.length === 0) hits = index.mini.search(q, { combineWith: "OR" });
-  const out: Candidate[] = [];
-  for (const h of hits) {
-    const doc = index.docs.get(String(h.id));
-    if (doc) out.push({ doc, score: h.score });
-  }
-  return out;
+  const terms = queryTerms(q);
+  if (terms.length === 0) return [];
+  const every = combineWords(index, terms, true);
+  return every.length > 0 ? every : combineWords(index, terms, false);
 }
 
 type Filter = (d: Doc) => boolean;
@@ -363,6 +470,50 @@ function sorter(sort: SearchSort, dir: "asc" | "desc", hasText: boolean): (a: Ca
   }
 }
 
+/**
+ * The items from `start` to `end` (exclusive) of `items` in the order of `compare`, the same as
+ * `items.sort(compare).slice(start, end)` for a total order. Only the first page or few are
+ * asked for, so it keeps the `end` best in a binary heap (worst on top): O(n log end) instead of
+ * sorting every match. Falls back to a full sort when `end` is a large part of `items`.
+ * May reorder `items`.
+ */
+export function pageOf<T>(items: T[], compare: (a: T, b: T) => number, start: number, end: number): T[] {
+  if (start >= items.length || end <= start) return [];
+  if (end * 4 >= items.length) return items.sort(compare).slice(start, end);
+  const heap: T[] = [];
+  // Max-heap under `compare`: heap[0] is the worst of the best `end` so far.
+  const up = (i: number) => {
+    while (i > 0) {
+      const parent = (i - 1) >> 1;
+      if (compare(heap[i], heap[parent]) <= 0) break;
+      [heap[i], heap[parent]] = [heap[parent], heap[i]];
+      i = parent;
+    }
+  };
+  const down = (i: number) => {
+    for (;;) {
+      const l = 2 * i + 1;
+      const r = l + 1;
+      let top = i;
+      if (l < heap.length && compare(heap[l], heap[top]) > 0) top = l;
+      if (r < heap.length && compare(heap[r], heap[top]) > 0) top = r;
+      if (top === i) return;
+      [heap[i], heap[top]] = [heap[top], heap[i]];
+      i = top;
+    }
+  };
+  for (const item of items) {
+    if (heap.length < end) {
+      heap.push(item);
+      up(heap.length - 1);
+    } else if (compare(item, heap[0]) < 0) {
+      heap[0] = item;
+      down(0);
+    }
+  }
+  return heap.sort(compare).slice(start, end);
+}
+
 function toRow(c: Candidate): SearchRow {
   const d = c.doc;
   return {
@@ -397,7 +548,7 @@ export async function searchLibrary(query: SearchQuery, options: SearchIndexOpti
   const keys = Object.keys(filters) as (keyof typeof filters)[];
   const active = keys.filter((k) => filters[k] !== null);
 
-  const familyCounts = new Map<string, number>(FAMILIES.map((f) => [f, 0]));
+  const familyCounts = new Int32Array(FAMILIES.length);
   const tagCounts = new Int32Array(index.tagValues.length);
   const rangeCounts = STATE_RANGES.map(() => 0);
   const minEntropy = { with: 0, without: 0 };
@@ -422,15 +573,12 @@ export async function searchLibrary(query: SearchQuery, options: SearchIndexOpti
     }
     if (failures > 1) continue;
     const all = failures === 0;
-    if (all || failed === "family") familyCounts.set(d.family, (familyCounts.get(d.family) ?? 0) + 1);
+    if ((all || failed === "family") && d.familyIndex >= 0) familyCounts[d.familyIndex]++;
     if ((all || failed === "states") && d.states !== null) {
       const n = d.states;
       statesMin = statesMin === null ? n : Math.min(statesMin, n);
       statesMax = statesMax === null ? n : Math.max(statesMax, n);
-      for (let i = 0; i < STATE_RANGES.length; i++) {
-        const r = STATE_RANGES[i];
-        if (n >= r.min && (r.max === null || n <= r.max)) rangeCounts[i]++;
-      }
+      for (const i of d.stateRanges) rangeCounts[i]++;
     }
     if ((all || failed === "rate") && d.entropyRateBits !== null) {
       rateMin = rateMin === null ? d.entropyRateBits : Math.min(rateMin, d.entropyRateBits);
@@ -451,17 +599,17 @@ export async function searchLibrary(query: SearchQuery, options: SearchIndexOpti
     if (count > 0) tagFacets.push({ value: index.tagValues[id], count });
   });
 
-  rows.sort(sorter(sort, dir, q !== ""));
   const start = (page - 1) * pageSize;
+  const shown = pageOf(rows, sorter(sort, dir, q !== ""), start, start + pageSize);
   return {
     total: rows.length,
     page,
     pageSize,
     sort,
     dir,
-    rows: rows.slice(start, start + pageSize).map(toRow),
+    rows: shown.map(toRow),
     facets: {
-      family: [...familyCounts].map(([value, count]) => ({ value, count })),
+      family: FAMILIES.map((value, i) => ({ value, count: familyCounts[i] })),
       tags: tagFacets.sort((a, b) => b.count - a.count || (a.value < b.value ? -1 : a.value > b.value ? 1 : 0)).slice(0, MAX_TAG_FACETS),
       states: { min: statesMin, max: statesMax },
       rate: { min: rateMin, max: rateMax },
