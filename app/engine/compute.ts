@@ -8,17 +8,17 @@ import { LN2, compensatedSum } from "./numeric";
 import { EngineInputError } from "./errors";
 import { ENGINE_VERSION } from "./version";
 import type { Family, ModelParams } from "./schema";
-import { labelText, parseComputeRequest, type ValidComputeRequest } from "./validate";
+import { labelResolver, labelText, parseComputeRequest, type ValidComputeRequest } from "./validate";
 import { contextLabels, liftOrderK, symbolMarginal } from "./lift";
 import { denseToSparse, restrictDense, sparseFromTriples, sparseToDense } from "./sparse";
 import { classify, type Classification } from "./classify";
 import { EngineNumericError, stationaryGTH, stationaryIterative, stationaryResidual } from "./stationary";
 import { entropyRateGeneral, entropyRateIid, entropyRateTwoState, graphWalkClosedForm, graphWalkMatrix, type WeightedEdges } from "./entropy-rate";
 import { blockEntropies, type BlockEntropy } from "./block-entropy";
-import { renyiEntropyRate, reversibleRenyiEntropyRate } from "./renyi";
-import { minEntropyRateHoward, minEntropyRateKarp } from "./min-entropy";
+import { prepareRenyi, prepareRenyiScaled, prepareReversibleRenyi, renyiEntropyRate, reversibleRenyiEntropyRate, reversibleRenyiFitsBudget, type RenyiPreparation, type ReversibleRenyiPreparation } from "./renyi";
+import { howardMaxMeanCycle, minEntropyRateFromHoward, minEntropyRateKarp } from "./min-entropy";
 import { hiddenMonteCarlo, hiddenSourceBounds, type EmissionMatrix } from "./hidden";
-import { verifyFigures, type VerificationRecord } from "./verification";
+import { verifyValidated, type VerificationRecord } from "./verification";
 
 /** Classes up to this size are solved densely by GTH (O(n³/3): about a second at 1,024 states). */
 export const GTH_LIMIT = 1024;
@@ -226,10 +226,14 @@ function maxOutDegree(M: DenseMatrix | SparseMatrix): number {
   return d;
 }
 
-/** Min-entropy rate of an irreducible class: Karp up to KARP_LIMIT states, Howard above. */
-export function classMinEntropy(M: DenseMatrix | SparseMatrix): { rate: Rate; method: string } {
+/**
+ * Min-entropy rate of an irreducible class: Karp up to KARP_LIMIT states, Howard above (its run
+ * taken from `prepared`, shared with the class's Rényi rates, when given).
+ */
+export function classMinEntropy(M: DenseMatrix | SparseMatrix, prepared?: () => RenyiPreparation): { rate: Rate; method: string } {
   if (M.n <= KARP_LIMIT) return { rate: minEntropyRateKarp(M), method: "Karp" };
-  return { rate: minEntropyRateHoward(M).rate, method: "Howard policy iteration" };
+  const prep = prepared ? prepared() : prepareRenyi(M);
+  return { rate: minEntropyRateFromHoward(prep.graph, prep.howard ?? howardMaxMeanCycle(prep.graph)).rate, method: "Howard policy iteration" };
 }
 
 /**
@@ -240,12 +244,13 @@ function classRenyi(
   M: DenseMatrix | SparseMatrix,
   orders: readonly number[],
   notes: string[],
-  closedForm?: (M: DenseMatrix | SparseMatrix, order: number) => Rate | null,
+  prepared: () => RenyiPreparation,
+  closedForm?: (order: number) => Rate | null,
 ): RenyiFigure[] {
   const out: RenyiFigure[] = [];
   for (const order of orders) {
     try {
-      const r = M.n === 1 ? { bits: 0, nats: 0 } : (closedForm?.(M, order) ?? renyiEntropyRate(M, order, { workBudget: RENYI_WORK_BUDGET }));
+      const r = M.n === 1 ? { bits: 0, nats: 0 } : (closedForm?.(order) ?? renyiEntropyRate(prepared(), order, { workBudget: RENYI_WORK_BUDGET }));
       out.push({ order, bits: r.bits, nats: r.nats });
     } catch (e) {
       if (!(e instanceof EngineNumericError)) throw e;
@@ -255,12 +260,29 @@ function classRenyi(
   return out;
 }
 
+/** A class's figures in closed form (two-state, graph walk). */
+interface ClosedFormFigures {
+  mu: ArrayLike<number>;
+  rate: Rate;
+  method: string;
+  /** The min-entropy rate in closed form, when there is one (graph walks); Karp / Howard otherwise. */
+  minEntropy?: { rate: Rate; method: string };
+  /**
+   * A scaling bias for the general Rényi route (prepareRenyiScaled) that makes a Howard run
+   * unnecessary: −½ ln μ for a reversible chain.
+   */
+  renyiBias?: ArrayLike<number>;
+}
+
 interface ChainOptions {
   orders: number[];
   /** A closed form for a class's μ and rate (two-state, graph walk); the general route otherwise. */
-  closedForm?: (states: number[]) => { mu: ArrayLike<number>; rate: Rate; method: string } | null;
-  /** A closed form for a class's Rényi rate (two-state). */
-  renyiClosedForm?: (M: DenseMatrix | SparseMatrix, order: number) => Rate | null;
+  closedForm?: (states: number[]) => ClosedFormFigures | null;
+  /**
+   * A special route for a class's Rényi rates (two-state closed form, graph walks' symmetric
+   * route): called once per class, it returns the per-order route (null: use the general one).
+   */
+  renyiClosedForm?: (M: DenseMatrix | SparseMatrix) => (order: number) => Rate | null;
 }
 
 function classSummaries(c: Classification): ClassSummary[] {
@@ -286,7 +308,11 @@ function closedClassFigures(chain: PreparedChain, labels: string[], c: Classific
       solver = s.solver;
       r = entropyRateGeneral(M, mu);
     }
-    const min = classMinEntropy(M);
+    // Howard's run (and the log-weight graph) is shared by min-entropy and every Rényi order.
+    let prep: RenyiPreparation | null = null;
+    const bias = closed?.renyiBias;
+    const prepared = () => (prep ??= bias ? prepareRenyiScaled(M, bias) : prepareRenyi(M));
+    const min = closed?.minEntropy ?? classMinEntropy(M, prepared);
     return {
       class: k,
       states: [...states],
@@ -296,7 +322,7 @@ function closedClassFigures(chain: PreparedChain, labels: string[], c: Classific
       entropyRate: r,
       minEntropyRate: min.rate,
       minEntropyMethod: min.method,
-      renyi: classRenyi(M, opts.orders, notes, opts.renyiClosedForm),
+      renyi: classRenyi(M, opts.orders, notes, prepared, opts.renyiClosedForm?.(M)),
       solver,
     };
   });
@@ -477,8 +503,11 @@ export function prepareChain(m: ModelParams): { chain: PreparedChain; labels: st
   }
 }
 
-function computeMarkov(m: Extract<ModelParams, { family: "markov" }>, req: ValidComputeRequest): UnverifiedResult {
-  const { chain, labels, symbols, order } = prepareChain(m);
+/** What prepareChain returns. */
+type Prepared = ReturnType<typeof prepareChain>;
+
+function computeMarkov(m: Extract<ModelParams, { family: "markov" }>, req: ValidComputeRequest, prep: Prepared): UnverifiedResult {
+  const { chain, labels, symbols, order } = prep;
   const r = chainResult("markov", chain, labels, symbols, order, req);
   if (order > 1) r.notes.push(`order-${order} chain lifted to a first-order chain on its ${labels.length} contexts`);
   return r;
@@ -499,8 +528,8 @@ export function twoStateRenyi(M: DenseMatrix | SparseMatrix, order: number): Rat
   return { bits: nats / LN2, nats };
 }
 
-function computeTwoState(m: Extract<ModelParams, { family: "two-state" }>, req: ValidComputeRequest): UnverifiedResult {
-  const { chain, symbols } = prepareChain(m);
+function computeTwoState(m: Extract<ModelParams, { family: "two-state" }>, req: ValidComputeRequest, prep: Prepared): UnverifiedResult {
+  const { chain, symbols } = prep;
   const { a, b } = m;
   // μ = (b, a)/(a + b) and (b·h(a) + a·h(b))/(a + b) apply whenever a + b > 0 (one closed class).
   const closedForm = (states: number[]) => {
@@ -509,19 +538,26 @@ function computeTwoState(m: Extract<ModelParams, { family: "two-state" }>, req: 
     const mu = states.map((s) => cf.stationary[s]);
     return { mu, rate: cf.rate, method: "closed form (two-state)" };
   };
-  return chainResult("two-state", chain, symbols, symbols, 1, req, closedForm, twoStateRenyi);
+  return chainResult("two-state", chain, symbols, symbols, 1, req, closedForm, (M) => (order) => twoStateRenyi(M, order));
 }
 
 /** Graph edges as index arrays (labels resolved), zero weights dropped. O(edges). */
 export function graphEdges(m: Extract<ModelParams, { family: "graph-walk" }>): WeightedEdges {
-  const index = new Map<string, number>();
-  m.nodes.forEach((l, i) => index.set(labelText(l), i));
-  const kept = m.edges.filter((e) => e[2] > 0);
-  return {
-    u: Int32Array.from(kept, (e) => index.get(labelText(e[0]))!),
-    v: Int32Array.from(kept, (e) => index.get(labelText(e[1]))!),
-    w: Float64Array.from(kept, (e) => e[2]),
-  };
+  const map = new Map<string, number>();
+  m.nodes.forEach((l, i) => map.set(labelText(l), i));
+  const index = labelResolver(m.nodes, map);
+  let kept = 0;
+  for (const e of m.edges) if (e[2] > 0) kept++;
+  const out: WeightedEdges = { u: new Int32Array(kept), v: new Int32Array(kept), w: new Float64Array(kept) };
+  let q = 0;
+  for (const e of m.edges) {
+    if (!(e[2] > 0)) continue;
+    out.u[q] = index(e[0])!;
+    out.v[q] = index(e[1])!;
+    out.w[q] = e[2];
+    q++;
+  }
+  return out;
 }
 
 /**
@@ -530,35 +566,67 @@ export function graphEdges(m: Extract<ModelParams, { family: "graph-walk" }>): W
  * the symmetric bracket does not narrow in time. O(budget).
  */
 export function graphWalkRenyi(M: DenseMatrix | SparseMatrix, order: number): Rate | null {
-  try {
-    const r = reversibleRenyiEntropyRate(M, order, { workBudget: RENYI_WORK_BUDGET / 2 });
-    return { bits: r.bits, nats: r.nats };
-  } catch (e) {
-    if (e instanceof EngineNumericError) return null;
-    throw e;
-  }
+  return graphWalkRenyiRoute(M)(order);
 }
 
-function computeGraphWalk(m: Extract<ModelParams, { family: "graph-walk" }>, req: ValidComputeRequest): UnverifiedResult {
-  const prep = prepareChain(m);
+/**
+ * graphWalkRenyi for several orders of one class: the symmetric form is prepared once, on the first
+ * order that needs it; a preparation that fails (the graph is not symmetric) sends every order to
+ * the general route. O(n + nnz) once, then O(budget) per order.
+ */
+export function graphWalkRenyiRoute(M: DenseMatrix | SparseMatrix): (order: number) => Rate | null {
+  const budget = RENYI_WORK_BUDGET / 2;
+  // undefined: not built yet; null: the route cannot help (budget below one restart, or not symmetric).
+  let prep: ReversibleRenyiPreparation | null | undefined;
+  return (order) => {
+    try {
+      if (prep === undefined) {
+        prep = null;
+        if (reversibleRenyiFitsBudget(M, budget)) prep = prepareReversibleRenyi(M);
+      }
+      if (prep === null) return null;
+      const r = reversibleRenyiEntropyRate(prep, order, { workBudget: budget });
+      return { bits: r.bits, nats: r.nats };
+    } catch (e) {
+      if (e instanceof EngineNumericError) return null;
+      throw e;
+    }
+  };
+}
+
+function computeGraphWalk(req: ValidComputeRequest, prep: Prepared): UnverifiedResult {
   const { chain, labels } = prep;
   const n = labels.length;
   const edges = prep.edges!;
   // Each connected component is a closed class; the closed form applies to its own edges.
   const closedForm = (states: number[]) => {
-    const pos = new Int32Array(n).fill(-1);
-    states.forEach((s, k) => (pos[s] = k));
-    const keep: number[] = [];
-    for (let e = 0; e < edges.u.length; e++) if (pos[edges.u[e]] >= 0) keep.push(e);
-    const sub: WeightedEdges = {
-      u: Int32Array.from(keep, (e) => pos[edges.u[e]]),
-      v: Int32Array.from(keep, (e) => pos[edges.v[e]]),
-      w: Float64Array.from(keep, (e) => edges.w[e]),
-    };
+    let sub: WeightedEdges = edges;
+    if (states.length < n) {
+      const pos = new Int32Array(n).fill(-1);
+      states.forEach((s, k) => (pos[s] = k));
+      let count = 0;
+      for (let e = 0; e < edges.u.length; e++) if (pos[edges.u[e]] >= 0) count++;
+      sub = { u: new Int32Array(count), v: new Int32Array(count), w: new Float64Array(count) };
+      let q = 0;
+      for (let e = 0; e < edges.u.length; e++) {
+        if (pos[edges.u[e]] < 0) continue;
+        sub.u[q] = pos[edges.u[e]];
+        sub.v[q] = pos[edges.v[e]];
+        sub.w[q] = edges.w[e];
+        q++;
+      }
+    }
     const cf = graphWalkClosedForm(states.length, sub);
-    return { mu: cf.stationary, rate: cf.rate, method: "closed form (graph walk, μᵢ = Wᵢ/2W)" };
+    return {
+      mu: cf.stationary,
+      rate: cf.rate,
+      method: "closed form (graph walk, μᵢ = Wᵢ/2W)",
+      minEntropy: { rate: cf.minEntropyRate, method: "closed form (graph walk, −max log₂ wᵢⱼ/√(WᵢWⱼ))" },
+      // Reversible: x = −½ ln μ turns [Pᵢⱼ^α] into its symmetric form, so no Howard run is needed.
+      renyiBias: Float64Array.from(cf.stationary, (m) => -0.5 * Math.log(m)),
+    };
   };
-  const r = chainResult("graph-walk", chain, labels, labels, 1, req, closedForm, graphWalkRenyi);
+  const r = chainResult("graph-walk", chain, labels, labels, 1, req, closedForm, graphWalkRenyiRoute);
   if (r.closedClasses.length > 1) {
     r.message = `the graph has ${r.closedClasses.length} connected components, so the walk's entropy rate depends on where it starts; each component's figures are given in closedClasses`;
   }
@@ -690,27 +758,42 @@ function finite(v: number, path: string): number {
  * EngineInputError if a figure came out non-finite (never returned silently).
  */
 export function computeUnverified(req: ValidComputeRequest): UnverifiedResult {
+  return computeWithChain(req).result;
+}
+
+/** computeUnverified, also handing back the prepared chain (chain families) for the verification to reuse. */
+function computeWithChain(req: ValidComputeRequest): { result: UnverifiedResult; chain: PreparedChain | null } {
   const m = req.model;
   let r: UnverifiedResult;
+  let chain: PreparedChain | null = null;
   switch (m.family) {
     case "iid":
       r = computeIid(m, req);
       break;
-    case "markov":
-      r = computeMarkov(m, req);
+    case "markov": {
+      const prep = prepareChain(m);
+      chain = prep.chain;
+      r = computeMarkov(m, req, prep);
       break;
-    case "two-state":
-      r = computeTwoState(m, req);
+    }
+    case "two-state": {
+      const prep = prepareChain(m);
+      chain = prep.chain;
+      r = computeTwoState(m, req, prep);
       break;
-    case "graph-walk":
-      r = computeGraphWalk(m, req);
+    }
+    case "graph-walk": {
+      const prep = prepareChain(m);
+      chain = prep.chain;
+      r = computeGraphWalk(req, prep);
       break;
+    }
     case "hidden":
       r = computeHidden(m, req);
       break;
   }
   checkFinite(r, "");
-  return r;
+  return { result: r, chain };
 }
 
 const KEY_ORDER = [
@@ -743,9 +826,10 @@ export function requireValidRequest(request: unknown): { value: ValidComputeRequ
 export function computeFigures(request: unknown): ComputeResult {
   const { value, notes } = requireValidRequest(request);
   try {
-    const r = computeUnverified(value);
+    const { result: r, chain } = computeWithChain(value);
     r.notes = [...notes, ...r.notes];
-    const verification = verifyFigures(value, r);
+    // The request is already validated and the chain built: the verification reuses both.
+    const verification = verifyValidated(value, r, chain);
     checkFinite(verification, "verification");
     return ordered({ ...r, verification });
   } catch (e) {

@@ -286,7 +286,15 @@ export function howardMaxMeanCycle(G: LogGraph): HowardResult {
  */
 export function minEntropyRateHoward(P: DenseMatrix | SparseMatrix): { rate: Rate; cycle: number[] } {
   const G = logGraph(P);
-  const h = howardMaxMeanCycle(G);
+  return minEntropyRateFromHoward(G, howardMaxMeanCycle(G));
+}
+
+/**
+ * minEntropyRateHoward from a Howard result already at hand (for example one shared with the
+ * Rényi rates of the same chain): the mean of −log₂ P along h's cycle, recomputed from G's own
+ * entries. O(cycle length · row length). Never throws.
+ */
+export function minEntropyRateFromHoward(G: LogGraph, h: HowardResult): { rate: Rate; cycle: number[] } {
   const { cycle } = h;
   // Exact mean of −log₂ P along the returned cycle.
   const acc = new Accumulator();

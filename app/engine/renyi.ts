@@ -6,7 +6,7 @@ import type { DenseMatrix, Rate, SparseMatrix } from "./types";
 import { LN2 } from "./numeric";
 import { EngineNumericError } from "./stationary";
 import { classify } from "./classify";
-import { howardMaxMeanCycle, logGraph } from "./min-entropy";
+import { howardMaxMeanCycle, logGraph, type HowardResult, type LogGraph } from "./min-entropy";
 import { checkDenseNonnegative, checkSparseNonnegative, isSparseMatrix, toSparse, transposeSparse } from "./sparse";
 
 function checkBudget(b: number | undefined): number {
@@ -228,6 +228,66 @@ export function perronRoot(A: DenseMatrix | SparseMatrix, opts: { tolerance?: nu
   return { logRoot: Math.log(max) + Math.log(r.root), vector: r.vector, iterations: r.iterations };
 }
 
+function checkOrder(alpha: number, what: string): void {
+  if (!Number.isFinite(alpha) || !(alpha > 0) || alpha === 1) {
+    throw new EngineNumericError(`${what}: order α must be a finite number > 0 other than 1 (α = 1 is the Shannon rate), got ${alpha}`);
+  }
+}
+
+/**
+ * What every Rényi order of one chain shares: the log-weight graph, the irreducibility check and
+ * Howard's maximum cycle mean with its bias (renyiEntropyRate's rescaling). Computing it once per
+ * chain instead of once per order saves a logGraph, a classification and a Howard run per order.
+ */
+export interface RenyiPreparation {
+  graph: LogGraph;
+  /** The scaling c and x of Bᵢⱼ = exp(α(ln Pᵢⱼ − c + x_j − x_i)). */
+  maxMeanLog: number;
+  bias: Float64Array;
+  /** Howard's run when the scaling came from it (prepareRenyi); null for prepareRenyiScaled. */
+  howard: HowardResult | null;
+}
+
+/**
+ * The order-independent part of renyiEntropyRate (see RenyiPreparation). O(n + nnz) plus Howard.
+ * Throws EngineNumericError if P is malformed or reducible.
+ */
+export function prepareRenyi(P: DenseMatrix | SparseMatrix): RenyiPreparation {
+  const G = irreducibleLogGraph(P);
+  const h = howardMaxMeanCycle(G);
+  return { graph: G, maxMeanLog: h.maxMeanLog, bias: h.bias, howard: h };
+}
+
+function irreducibleLogGraph(P: DenseMatrix | SparseMatrix): LogGraph {
+  const G = logGraph(P);
+  const cls = classify({ n: G.n, rowPtr: G.rowPtr, col: G.col, val: G.prob });
+  if (!cls.irreducible) throw new EngineNumericError(`renyiEntropyRate: chain is reducible (${cls.classes.length} classes); restrict it to a closed class`);
+  return G;
+}
+
+/**
+ * prepareRenyi with a scaling bias x supplied instead of Howard's: c is then taken as the largest
+ * ln Pᵢⱼ + x_j − x_i, so every entry of B is ≤ 1 and the largest is 1. Any x gives the same Perron
+ * root (B is similar to [Pᵢⱼ^α] times e^{−αc}); a good one keeps B's entries near 1. For a
+ * reversible chain x = −½ ln μ makes B symmetric, Bᵢⱼ = (PᵢⱼPⱼᵢ)^{α/2}/max, with no Howard run.
+ * O(n + nnz). Throws EngineNumericError if P is malformed or reducible, or x has the wrong length
+ * or a non-finite entry.
+ */
+export function prepareRenyiScaled(P: DenseMatrix | SparseMatrix, bias: ArrayLike<number>): RenyiPreparation {
+  const G = irreducibleLogGraph(P);
+  if (bias.length !== G.n) throw new EngineNumericError(`prepareRenyiScaled: bias has ${bias.length} entries, P has ${G.n} states`);
+  const x = Float64Array.from(bias);
+  let c = -Infinity;
+  for (let i = 0; i < G.n; i++) {
+    if (!Number.isFinite(x[i])) throw new EngineNumericError(`prepareRenyiScaled: bias[${i}] = ${x[i]} is not finite`);
+    for (let p = G.rowPtr[i]; p < G.rowPtr[i + 1]; p++) {
+      const e = G.logw[p] + x[G.col[p]] - x[i];
+      if (e > c) c = e;
+    }
+  }
+  return { graph: G, maxMeanLog: c, bias: x, howard: null };
+}
+
 /**
  * The Rényi entropy rate of order α, (1/(1−α)) log λ(α) with λ(α) the Perron root of [Pᵢⱼ^α]
  * (Rached, Alajaji and Campbell 2001), in bits and nats. To keep [Pᵢⱼ^α] representable for large α,
@@ -238,20 +298,17 @@ export function perronRoot(A: DenseMatrix | SparseMatrix, opts: { tolerance?: nu
  * to ρ(B), so the rate carries an absolute error of roughly 1e-13/|1 − α| nats — about 1e-9 at
  * α = 1 ± 1e-4; as α → ∞ it tends to the min-entropy rate. O(nnz) per power iteration plus Howard,
  * at most opts.workBudget (default PERRON_WORK_BUDGET) entry operations for the Perron root.
+ * `P` may be a RenyiPreparation from prepareRenyi (several orders of one chain share it).
  * Throws EngineNumericError if α is not a finite number > 0 and ≠ 1, P is malformed or reducible,
  * or the Perron root is not obtained within the budget (the message says so).
  */
-export function renyiEntropyRate(P: DenseMatrix | SparseMatrix, alpha: number, opts: { workBudget?: number } = {}): Rate {
-  if (!Number.isFinite(alpha) || !(alpha > 0) || alpha === 1) {
-    throw new EngineNumericError(`renyiEntropyRate: order α must be a finite number > 0 other than 1 (α = 1 is the Shannon rate), got ${alpha}`);
-  }
-  const G = logGraph(P);
-  const cls = classify({ n: G.n, rowPtr: G.rowPtr, col: G.col, val: G.prob });
-  if (!cls.irreducible) throw new EngineNumericError(`renyiEntropyRate: chain is reducible (${cls.classes.length} classes); restrict it to a closed class`);
+export function renyiEntropyRate(P: DenseMatrix | SparseMatrix | RenyiPreparation, alpha: number, opts: { workBudget?: number } = {}): Rate {
+  checkOrder(alpha, "renyiEntropyRate");
+  const prep = "graph" in P ? P : prepareRenyi(P);
+  const G = prep.graph;
   const n = G.n;
-  const h = howardMaxMeanCycle(G);
-  const c = h.maxMeanLog;
-  const x = h.bias;
+  const c = prep.maxMeanLog;
+  const x = prep.bias;
   const val = new Float64Array(G.logw.length);
   for (let i = 0; i < n; i++) {
     for (let p = G.rowPtr[i]; p < G.rowPtr[i + 1]; p++) {
@@ -439,6 +496,52 @@ function lanczosPerron(n: number, rowPtr: Int32Array, col: Int32Array, val: Floa
 /** Relative width of the Perron-root bracket below which a reversible chain's Rényi rate is published. */
 export const REVERSIBLE_BRACKET_TOLERANCE = 1e-10;
 
+/** Work (entry operations) of one lanczosPerron restart on n states and nnz entries, as it counts it. */
+function lanczosRestartCost(n: number, nnz: number): number {
+  const m = Math.min(n, 24);
+  const perMatvec = n + nnz;
+  return m * perMatvec + m * m * n + m * n + (POLISH_STEPS + 1) * perMatvec;
+}
+
+/**
+ * The order-independent part of reversibleRenyiEntropyRate: the positive pattern of P (checked to be
+ * symmetric and irreducible) and ½(ln Pᵢⱼ + ln Pⱼᵢ) per entry, so that ln Sᵢⱼ = α times it.
+ */
+export interface ReversibleRenyiPreparation {
+  n: number;
+  rowPtr: Int32Array;
+  col: Int32Array;
+  /** ½(ln Pᵢⱼ + ln Pⱼᵢ), aligned with col. */
+  halfLogS: Float64Array;
+}
+
+/**
+ * Builds a ReversibleRenyiPreparation. O(n + nnz). Throws EngineNumericError if P is malformed, its
+ * transition graph is not symmetric, or it is reducible.
+ */
+export function prepareReversibleRenyi(P: DenseMatrix | SparseMatrix): ReversibleRenyiPreparation {
+  const G = logGraph(P);
+  const n = G.n;
+  const cls = classify({ n, rowPtr: G.rowPtr, col: G.col, val: G.prob });
+  if (!cls.irreducible) throw new EngineNumericError(`reversibleRenyiEntropyRate: chain is reducible (${cls.classes.length} classes)`);
+  const T = transposeSparse({ n, rowPtr: G.rowPtr, col: G.col, val: G.logw });
+  for (let i = 0; i <= n; i++) if (T.rowPtr[i] !== G.rowPtr[i]) throw new EngineNumericError("reversibleRenyiEntropyRate: the transition graph is not symmetric, so the chain is not reversible");
+  const halfLogS = new Float64Array(G.logw.length);
+  for (let p = 0; p < halfLogS.length; p++) {
+    if (T.col[p] !== G.col[p]) throw new EngineNumericError("reversibleRenyiEntropyRate: the transition graph is not symmetric, so the chain is not reversible");
+    halfLogS[p] = 0.5 * (G.logw[p] + T.val[p]);
+  }
+  return { n, rowPtr: G.rowPtr, col: G.col, halfLogS };
+}
+
+function positiveEntries(P: DenseMatrix | SparseMatrix): number {
+  let nnz = 0;
+  if (isSparseMatrix(P)) {
+    for (let p = 0; p < P.rowPtr[P.n]; p++) if (P.val[p] > 0) nnz++;
+  } else for (let k = 0; k < P.data.length; k++) if (P.data[k] > 0) nnz++;
+  return nnz;
+}
+
 /**
  * The Rényi entropy rate of order α of a reversible chain (for example a random walk on an
  * undirected weighted graph), from the symmetric matrix Sᵢⱼ = (Pᵢⱼ Pⱼᵢ)^{α/2}: reversibility
@@ -448,33 +551,42 @@ export const REVERSIBLE_BRACKET_TOLERANCE = 1e-10;
  * found by restarted Lanczos with a Rayleigh/Collatz–Wielandt bracket (lanczosPerron). The figure
  * is returned only when the bracket is relatively narrower than 1e-10 (REVERSIBLE_BRACKET_TOLERANCE,
  * an error of at most 1e-10/|1 − α| nats in the rate) within the work budget
- * (default PERRON_WORK_BUDGET); `bracketBits` carries the bracket as a rate interval.
+ * (default PERRON_WORK_BUDGET); `bracketBits` carries the bracket as a rate interval. When the
+ * budget does not cover a single restart it throws at once, before any preparation.
+ * `P` may be a ReversibleRenyiPreparation (several orders of one chain share it).
  * O((n + nnz)·24 + 24²·n) per restart. Throws EngineNumericError if α is not a finite number > 0 and
  * ≠ 1, P is malformed, not structurally symmetric (so it cannot be reversible) or reducible, or the
  * bracket does not narrow within the budget (the message says so). Reversibility itself is not
  * checked here: verification recomputes the rate from [Pᵢⱼ^α] directly.
  */
-export function reversibleRenyiEntropyRate(P: DenseMatrix | SparseMatrix, alpha: number, opts: { workBudget?: number } = {}): Rate & { bracketBits: [number, number] } {
+export function reversibleRenyiEntropyRate(
+  P: DenseMatrix | SparseMatrix | ReversibleRenyiPreparation,
+  alpha: number,
+  opts: { workBudget?: number } = {},
+): Rate & { bracketBits: [number, number] } {
   if (!Number.isFinite(alpha) || !(alpha > 0) || alpha === 1) {
     throw new EngineNumericError(`reversibleRenyiEntropyRate: order α must be a finite number > 0 other than 1, got ${alpha}`);
   }
-  const G = logGraph(P);
-  const n = G.n;
-  const cls = classify({ n, rowPtr: G.rowPtr, col: G.col, val: G.prob });
-  if (!cls.irreducible) throw new EngineNumericError(`reversibleRenyiEntropyRate: chain is reducible (${cls.classes.length} classes)`);
-  const T = transposeSparse({ n, rowPtr: G.rowPtr, col: G.col, val: G.logw });
-  for (let i = 0; i <= n; i++) if (T.rowPtr[i] !== G.rowPtr[i]) throw new EngineNumericError("reversibleRenyiEntropyRate: the transition graph is not symmetric, so the chain is not reversible");
-  const logS = new Float64Array(G.logw.length);
+  const budget = checkBudget(opts.workBudget);
+  let prep: ReversibleRenyiPreparation;
+  if ("halfLogS" in P) prep = P;
+  else {
+    if (isSparseMatrix(P)) checkSparseNonnegative(P, "transition matrix");
+    else checkDenseNonnegative(P, "transition matrix");
+    reversibleBudgetCheck(P.n, positiveEntries(P), budget);
+    prep = prepareReversibleRenyi(P);
+  }
+  const n = prep.n;
+  reversibleBudgetCheck(n, prep.halfLogS.length, budget);
+  const logS = new Float64Array(prep.halfLogS.length);
   let top = -Infinity;
   for (let p = 0; p < logS.length; p++) {
-    if (T.col[p] !== G.col[p]) throw new EngineNumericError("reversibleRenyiEntropyRate: the transition graph is not symmetric, so the chain is not reversible");
-    logS[p] = 0.5 * alpha * (G.logw[p] + T.val[p]);
+    logS[p] = alpha * prep.halfLogS[p];
     if (logS[p] > top) top = logS[p];
   }
   const val = Float64Array.from(logS, (l) => Math.exp(l - top));
-  const budget = checkBudget(opts.workBudget);
   const tol = REVERSIBLE_BRACKET_TOLERANCE;
-  const b = n === 1 ? { lower: val[0], upper: val[0], vector: new Float64Array([1]), work: 0 } : lanczosPerron(n, G.rowPtr, G.col, val, tol, budget);
+  const b = n === 1 ? { lower: val[0], upper: val[0], vector: new Float64Array([1]), work: 0 } : lanczosPerron(n, prep.rowPtr, prep.col, val, tol, budget);
   if (!(b.upper - b.lower <= tol * b.upper) || !(b.lower > 0)) {
     throw new EngineNumericError(
       `reversibleRenyiEntropyRate: the work budget (${budget.toExponential(1)} entry operations) was spent before the Perron-root bracket narrowed to ${tol} (it reached ${((b.upper - b.lower) / b.upper).toExponential(1)})`,
@@ -489,4 +601,23 @@ export function reversibleRenyiEntropyRate(P: DenseMatrix | SparseMatrix, alpha:
   if (!(nats > 0)) nats = 0;
   const [x, y] = [toBits(b.lower), toBits(b.upper)];
   return { bits: nats / LN2, nats, bracketBits: x <= y ? [x, y] : [y, x] };
+}
+
+/**
+ * Whether a work budget pays for at least one Lanczos restart of reversibleRenyiEntropyRate on P
+ * (otherwise it would throw at once). O(nnz) to count P's positive entries. Never throws.
+ */
+export function reversibleRenyiFitsBudget(P: DenseMatrix | SparseMatrix, budget: number): boolean {
+  return P.n === 1 || lanczosRestartCost(P.n, positiveEntries(P)) <= budget;
+}
+
+/** Throws when the budget cannot pay for one Lanczos restart (nothing could be published). */
+function reversibleBudgetCheck(n: number, nnz: number, budget: number): void {
+  if (n === 1) return;
+  const cost = lanczosRestartCost(n, nnz);
+  if (cost > budget) {
+    throw new EngineNumericError(
+      `reversibleRenyiEntropyRate: the work budget (${budget.toExponential(1)} entry operations) is smaller than one Lanczos restart on ${n} states (${cost.toExponential(1)})`,
+    );
+  }
 }

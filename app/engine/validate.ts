@@ -40,6 +40,19 @@ export function labelText(l: Label): string {
   return typeof l === "number" ? String(l) : l;
 }
 
+/**
+ * Resolves a label to its index in `labels`, given `index` (label text → first index): a number
+ * equal to its own position (nodes 0, 1, 2, … as numbers, the usual form of a large graph) is
+ * answered without making its text; anything else goes through the map. O(1) per label.
+ */
+export function labelResolver(labels: readonly Label[], index: ReadonlyMap<string, number>): (l: Label) => number | undefined {
+  const n = labels.length;
+  return (l) => {
+    if (typeof l === "number" && Number.isInteger(l) && l >= 0 && l < n && labels[l] === l) return l | 0;
+    return index.get(labelText(l));
+  };
+}
+
 /** A number as a person would write it: 12 significant digits, no float noise (0.98, not 0.9800000000000001). */
 export function formatNumber(x: number, digits = 12): string {
   if (!Number.isFinite(x)) return String(x);
@@ -333,13 +346,16 @@ function validateSparseMarkov(m: MarkovParams, list: IssueList, notes: string[],
 }
 
 function validateGraph(m: GraphWalkParams, list: IssueList): GraphWalkParams {
-  const index = checkLabelsUnique(m.nodes, "nodes", list);
+  const index = labelResolver(m.nodes, checkLabelsUnique(m.nodes, "nodes", list));
   const weight = new Float64Array(m.nodes.length);
   let bad = false;
   for (let e = 0; e < m.edges.length; e++) {
-    const [u, v, w] = m.edges[e];
-    const iu = index.get(labelText(u));
-    const iv = index.get(labelText(v));
+    const edge = m.edges[e];
+    const u = edge[0];
+    const v = edge[1];
+    const w = edge[2];
+    const iu = index(u);
+    const iv = index(v);
     if (iu === undefined || iv === undefined) {
       bad = true;
       if (!list.add(`edges[${e}]`, `edge ${e} names an unknown node ${quoted(iu === undefined ? u : v)}`)) return m;

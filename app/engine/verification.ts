@@ -7,9 +7,12 @@
  * - i.i.d.: closed forms vs the general Markov formula on the chain whose rows all equal p; min-entropy
  *   vs Karp on that chain (≤ KARP_LIMIT symbols) or the Rényi-limit bound; Rényi vs a power iteration.
  * - chains: μ by GTH forward vs GTH in reverse elimination order (dense), by Gauss–Seidel vs a second
- *   Gauss–Seidel run from another start (sparse), or closed form vs solver (two-state, graph walk);
- *   the entropy rate vs the general formula under the second μ; min-entropy Karp vs Howard up to
- *   KARP_LIMIT states, above it Howard vs the Rényi-limit bound; Rényi vs the Collatz–Wielandt bracket.
+ *   Gauss–Seidel run from another start (sparse), or closed form vs solver (two-state, graph walk;
+ *   for a sparse graph walk the solver is detailed balance along a spanning tree of P, O(n + nnz),
+ *   with Gauss–Seidel as the fallback if balance does not hold); the entropy rate vs the general
+ *   formula under the second μ; min-entropy Karp vs Howard up to KARP_LIMIT states, above it Howard
+ *   vs the Rényi-limit bound, and a closed form (graph walk) vs Karp or Howard; Rényi vs the
+ *   Collatz–Wielandt bracket.
  * - hidden: μ by GTH both ways; the sandwich bounds must be ordered and monotone; the Monte Carlo
  *   95% interval must overlap [lower_N, upper_N].
  *
@@ -24,7 +27,7 @@ import { EngineInputError, VerificationError } from "./errors";
 import { ENGINE_VERSION } from "./version";
 import { parseModel } from "./validate";
 import { denseToSparse, restrictDense } from "./sparse";
-import { stationaryGTH, stationaryIterative, stationaryResidual } from "./stationary";
+import { stationaryGTH, stationaryIterative, stationaryResidual, stationaryReversible } from "./stationary";
 import { entropyRateGeneral } from "./entropy-rate";
 import { minEntropyRateHoward, minEntropyRateKarp } from "./min-entropy";
 import { studentTTwoSidedQuantile } from "./hidden";
@@ -38,6 +41,7 @@ import {
   denseFromRows,
   prepareChain,
   requireValidRequest,
+  type PreparedChain,
   solveStationary,
   type ClosedClassFigures,
   type UnverifiedResult,
@@ -80,6 +84,11 @@ export const RESIDUAL_LIMIT = 1e-9;
 export const LIMIT_BOUND_ORDER = 32;
 /** Work budget (entry operations) of one verification bracket of a Perron root. */
 export const BRACKET_WORK_BUDGET = 6e7;
+/**
+ * Largest relative detailed-balance defect under which the spanning-tree μ of a graph walk is used as
+ * its second route (rounding along tree paths stays far below it; common practice, no source).
+ */
+const BALANCE_LIMIT = 1e-9;
 /** Alphabet up to which the i.i.d. general-formula route builds the matrix explicitly. */
 const IID_MATRIX_LIMIT = 1024;
 
@@ -181,10 +190,12 @@ function logRootOfPower(M: DenseMatrix | SparseMatrix, alpha: number): { lower: 
     for (let p = S.rowPtr[i]; p < S.rowPtr[i + 1]; p++) if (S.val[p] > 0) d++;
     maxDegree = Math.max(maxDegree, d);
   }
+  const { n, rowPtr, col } = S;
   const apply: Apply = (x, y) => {
-    for (let i = 0; i < S.n; i++) {
+    for (let i = 0; i < n; i++) {
       let s = 0;
-      for (let p = S.rowPtr[i]; p < S.rowPtr[i + 1]; p++) s += a[p] * x[S.col[p]];
+      const end = rowPtr[i + 1];
+      for (let p = rowPtr[i]; p < end; p++) s += a[p] * x[col[p]];
       y[i] = s;
     }
   };
@@ -222,7 +233,12 @@ function chainClassChecks(prefix: string, fig: ClosedClassFigures, M: DenseMatri
   let mu2: Float64Array;
   let m2: string;
   let tol: Tolerance;
-  if (closedForm) {
+  const balanced = closedForm && !dense ? stationaryReversible(M) : null;
+  if (balanced && balanced.balanceDefect <= BALANCE_LIMIT) {
+    mu2 = balanced.mu;
+    m2 = "detailed balance along a spanning tree of P";
+    tol = DIRECT_TOLERANCE;
+  } else if (closedForm) {
     const s = solveStationary(M);
     mu2 = s.mu;
     m2 = s.solver.method;
@@ -248,6 +264,9 @@ function chainClassChecks(prefix: string, fig: ClosedClassFigures, M: DenseMatri
     const pub = { method: `${fig.minEntropyMethod} (published)`, value: fig.minEntropyRate.bits };
     if (fig.minEntropyMethod === "Karp") {
       checks.push(equal(`${prefix}minEntropyRate.bits`, pub, { method: "Howard policy iteration", value: minEntropyRateHoward(M).rate.bits }));
+    } else if (fig.minEntropyMethod?.startsWith("closed form")) {
+      const second = M.n <= KARP_LIMIT ? { method: "Karp", value: minEntropyRateKarp(M).bits } : { method: "Howard policy iteration", value: minEntropyRateHoward(M).rate.bits };
+      checks.push(equal(`${prefix}minEntropyRate.bits`, pub, second));
     } else {
       const b = logRootOfPower(M, LIMIT_BOUND_ORDER);
       checks.push(minEntropyLimitCheck(`${prefix}minEntropyRate.bits`, pub, b, b.maxDegree));
@@ -391,7 +410,15 @@ function toRequest(input: unknown): ValidComputeRequest {
  */
 export function verifyFigures(input: unknown, result?: UnverifiedResult): VerificationRecord {
   const req = toRequest(input);
-  const r = result ?? computeUnverified(req);
+  return verifyValidated(req, result ?? computeUnverified(req));
+}
+
+/**
+ * verifyFigures for a request that is already validated, with its result and, for chain families,
+ * the chain prepareChain built for it (rebuilt here when absent). Cost and throws as verifyFigures,
+ * without the second parse of the input.
+ */
+export function verifyValidated(req: ValidComputeRequest, r: UnverifiedResult, prepared?: PreparedChain | null): VerificationRecord {
   const checks: VerificationCheck[] = [];
   switch (req.model.family) {
     case "iid":
@@ -401,7 +428,7 @@ export function verifyFigures(input: unknown, result?: UnverifiedResult): Verifi
       checks.push(...hiddenChecks(req, r));
       break;
     default: {
-      const { chain } = prepareChain(req.model);
+      const chain = prepared ?? prepareChain(req.model).chain;
       const several = r.closedClasses.length > 1;
       r.closedClasses.forEach((fig, t) => checks.push(...chainClassChecks(several ? `closedClasses[${t}].` : "", fig, classMatrix(chain, fig.states))));
     }
