@@ -16,7 +16,7 @@ import { EngineNumericError, stationaryGTH, stationaryIterative, stationaryResid
 import { entropyRateGeneral, entropyRateIid, entropyRateTwoState, graphWalkClosedForm, graphWalkMatrix, type WeightedEdges } from "./entropy-rate";
 import { blockEntropies, type BlockEntropy } from "./block-entropy";
 import { prepareRenyi, prepareRenyiScaled, prepareReversibleRenyi, renyiEntropyRate, reversibleRenyiEntropyRate, reversibleRenyiFitsBudget, type RenyiPreparation, type ReversibleRenyiPreparation } from "./renyi";
-import { howardMaxMeanCycle, minEntropyRateFromHoward, minEntropyRateKarp } from "./min-entropy";
+import { howardMaxMeanCycle, minEntropyRateFromHoward, minEntropyRateKarp, reversibleMinEntropyRate } from "./min-entropy";
 import { hiddenMonteCarlo, hiddenSourceBounds, type EmissionMatrix } from "./hidden";
 import { verifyValidated, type VerificationRecord } from "./verification";
 
@@ -617,11 +617,12 @@ function computeGraphWalk(req: ValidComputeRequest, prep: Prepared): UnverifiedR
       }
     }
     const cf = graphWalkClosedForm(states.length, sub);
+    const M = states.length < n ? restrictSparse(chain.sparse, states) : chain.sparse;
     return {
       mu: cf.stationary,
       rate: cf.rate,
       method: "closed form (graph walk, μᵢ = Wᵢ/2W)",
-      minEntropy: { rate: cf.minEntropyRate, method: "closed form (graph walk, −max log₂ wᵢⱼ/√(WᵢWⱼ))" },
+      minEntropy: { rate: reversibleMinEntropyRate(M, cf.stationary), method: "closed form (graph walk, −max log₂ wᵢⱼ/√(WᵢWⱼ))" },
       // Reversible: x = −½ ln μ turns [Pᵢⱼ^α] into its symmetric form, so no Howard run is needed.
       renyiBias: Float64Array.from(cf.stationary, (m) => -0.5 * Math.log(m)),
     };

@@ -113,16 +113,12 @@ function nodeWeights(nodes: number, edges: WeightedEdges): Float64Array {
  * The random walk on an undirected weighted graph, in closed form: μᵢ = Wᵢ/2W and
  * H = H({wᵢⱼ/2W}) − H({Wᵢ/2W}) (the walk is reversible; Levin, Peres and Wilmer, ch. 1–2), with
  * parallel edges merged first. Expanded, that is H = (Σᵢ Wᵢ log₂ Wᵢ − Σ₍ᵢ,ⱼ₎ wᵢⱼ log₂ wᵢⱼ) / 2W over
- * ordered pairs, which needs one logarithm per node and per merged edge and no linear solve.
- * The min-entropy rate comes in the same pass: for a reversible chain Pᵢⱼ = sᵢⱼ·√(μⱼ/μᵢ) with
- * sᵢⱼ = √(PᵢⱼPⱼᵢ) symmetric, so along any cycle the √μ factors cancel and its mean of ln P is the
- * mean of ln s, at most max ln sᵢⱼ, which the two-step cycle i → j → i (or a loop) attains; hence
- * H_min = −max over merged edges of log₂(wᵢⱼ/√(WᵢWⱼ)) (derived here from detailed balance;
- * verification checks it against Howard policy iteration). The graph is assumed connected (the caller checks components). O(nodes + edges) time and memory.
+ * ordered pairs, which needs one logarithm per node and per merged edge and no linear solve. The
+ * graph is assumed connected (the caller checks components). O(nodes + edges) time and memory.
  * Throws EngineNumericError on an index out of range, a negative or non-finite weight, or a node
  * without edges.
  */
-export function graphWalkClosedForm(nodes: number, edges: WeightedEdges): { rate: Rate; stationary: Float64Array; minEntropyRate: Rate } {
+export function graphWalkClosedForm(nodes: number, edges: WeightedEdges): { rate: Rate; stationary: Float64Array } {
   if (!Number.isInteger(nodes) || nodes < 1) throw new EngineNumericError(`graph walk: node count must be a positive integer, got ${nodes}`);
   const { u, v, w } = edges;
   const m = u.length;
@@ -153,13 +149,11 @@ export function graphWalkClosedForm(nodes: number, edges: WeightedEdges): { rate
   // Node pass: 2W and Σ Wᵢ log₂ Wᵢ, both compensated.
   const total = new Accumulator();
   const nodeTerm = new Accumulator();
-  const rootW = new Float64Array(nodes);
   for (let i = 0; i < nodes; i++) {
     const x = W[i];
     if (!(x > 0)) throw new EngineNumericError(`graph walk: node ${i} has no edges`);
     total.add(x);
     nodeTerm.add(x * Math.log2(x));
-    rootW[i] = Math.sqrt(x);
   }
   const twoW = total.value();
   if (!(twoW >= 2 ** -900 && twoW <= 2 ** 900)) {
@@ -198,9 +192,6 @@ export function graphWalkClosedForm(nodes: number, edges: WeightedEdges): { rate
   const tableWeight = new Float64Array(mask + 1);
   let sum = 0;
   let comp = 0;
-  // Largest wᵢⱼ/√(WᵢWⱼ) over merged edges: merging only adds weight ≥ 0, so the running maximum
-  // over every partial merge is the maximum over the final merged weights.
-  let best = 0;
   for (let k = 0; k < blocks; k++) {
     const base = k << SH;
     for (let q = blockStart[k]; q < blockStart[k + 1]; q++) {
@@ -208,25 +199,19 @@ export function graphWalkClosedForm(nodes: number, edges: WeightedEdges): { rate
       const x = pairs[2 * q + 1];
       let h = Math.imul(key, 0x9e3779b1) >>> hashShift;
       while (stamp[h] === k && tableKey[h] !== key) h = (h + 1) & mask;
-      const lo = base | (key & LOW);
-      const hi = key >>> SH;
-      const c = lo === hi ? 1 : 2;
+      const c = (base | (key & LOW)) === key >>> SH ? 1 : 2;
       let term: number;
-      let merged: number;
       if (stamp[h] === k) {
         const old = tableWeight[h];
-        merged = old + x;
+        const merged = old + x;
         tableWeight[h] = merged;
         term = c * ((merged > 0 ? merged * Math.log2(merged) : 0) - (old > 0 ? old * Math.log2(old) : 0));
       } else {
         stamp[h] = k;
         tableKey[h] = key;
         tableWeight[h] = x;
-        merged = x;
         term = x > 0 ? c * x * Math.log2(x) : 0;
       }
-      const ratio = merged / rootW[lo] / rootW[hi];
-      if (ratio > best) best = ratio;
       const t = sum + term;
       if (Math.abs(sum) >= Math.abs(term)) comp += sum - t + term;
       else comp += term - t + sum;
@@ -236,7 +221,7 @@ export function graphWalkClosedForm(nodes: number, edges: WeightedEdges): { rate
   const edgeTerm = sum + comp;
   const stationary = W;
   for (let i = 0; i < nodes; i++) stationary[i] /= twoW;
-  return { rate: rate((nodeTerm.value() - edgeTerm) / twoW), stationary, minEntropyRate: rate(-Math.log2(best)) };
+  return { rate: rate((nodeTerm.value() - edgeTerm) / twoW), stationary };
 }
 
 /**

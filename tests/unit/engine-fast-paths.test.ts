@@ -5,7 +5,7 @@ import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { computeFigures, graphWalkRenyi, graphWalkRenyiRoute, prepareChain } from "~/engine/compute";
 import { graphWalkClosedForm, graphWalkMatrix, type WeightedEdges } from "~/engine/entropy-rate";
-import { howardMaxMeanCycle, logGraph, minEntropyRateFromHoward, minEntropyRateHoward, minEntropyRateKarp } from "~/engine/min-entropy";
+import { howardMaxMeanCycle, logGraph, minEntropyRateFromHoward, minEntropyRateHoward, minEntropyRateKarp, reversibleMinEntropyRate } from "~/engine/min-entropy";
 import { prepareRenyi, prepareRenyiScaled, prepareReversibleRenyi, renyiEntropyRate, reversibleRenyiEntropyRate, reversibleRenyiFitsBudget } from "~/engine/renyi";
 import { EngineNumericError, stationaryIterative, stationaryReversible } from "~/engine/stationary";
 import { sparseFromTriples } from "~/engine/sparse";
@@ -63,12 +63,18 @@ describe("detailed-balance stationary law (the second route of a graph walk's μ
 });
 
 describe("graph-walk min-entropy closed form", () => {
+  it("rejects a μ that is not a positive law", () => {
+    const P = graphWalkMatrix(2, edgesOf(2, [1, 1], []));
+    expect(() => reversibleMinEntropyRate(P, [1])).toThrow(EngineNumericError);
+    expect(() => reversibleMinEntropyRate(P, [1, 0])).toThrow(/must be positive/);
+  });
+
   it("equals Karp and Howard on random floor graphs", () => {
     fc.assert(
       fc.property(floorArb, ([n, ring, extra]) => {
         const E = edgesOf(n, ring, extra);
         const P = graphWalkMatrix(n, E);
-        const cf = graphWalkClosedForm(n, E).minEntropyRate.bits;
+        const cf = reversibleMinEntropyRate(P, graphWalkClosedForm(n, E).stationary).bits;
         expect(Math.abs(cf - minEntropyRateKarp(P).bits)).toBeLessThanOrEqual(ROUNDING);
         expect(Math.abs(cf - minEntropyRateHoward(P).rate.bits)).toBeLessThanOrEqual(ROUNDING);
       }),
@@ -80,7 +86,7 @@ describe("graph-walk min-entropy closed form", () => {
     // Derived by hand (common practice, no source): dock–aisle 2 (twice, merged to 4), aisle–rack 1,
     // rack loop 3. W = (4, 5, 4). Ratios w/√(WᵢWⱼ): 4/√20, 1/√20, 3/4; the largest is 4/√20.
     const E: WeightedEdges = { u: Int32Array.from([0, 0, 1, 2]), v: Int32Array.from([1, 1, 2, 2]), w: Float64Array.from([2, 2, 1, 3]) };
-    expect(graphWalkClosedForm(3, E).minEntropyRate.bits).toBeCloseTo(-Math.log2(4 / Math.sqrt(20)), 14);
+    expect(reversibleMinEntropyRate(graphWalkMatrix(3, E), graphWalkClosedForm(3, E).stationary).bits).toBeCloseTo(-Math.log2(4 / Math.sqrt(20)), 14);
   });
 
   it("is what compute publishes, and verification checks it against a second route", () => {
