@@ -5,7 +5,7 @@
 import type { DenseMatrix, Rate, SparseMatrix } from "./types";
 import { Accumulator, LN2 } from "./numeric";
 import { EngineNumericError } from "./stationary";
-import { checkDenseNonnegative, checkSparseNonnegative, isSparseMatrix, toSparse } from "./sparse";
+import { checkDenseNonnegative, checkSparseNonnegative, isSparseMatrix } from "./sparse";
 
 /** The positive entries of P as a graph with weight ln Pᵢⱼ per edge (CSR, zeros dropped). */
 export interface LogGraph {
@@ -24,9 +24,9 @@ export interface LogGraph {
  * positive entry (a state with nowhere to go).
  */
 export function logGraph(P: DenseMatrix | SparseMatrix): LogGraph {
-  if (isSparseMatrix(P)) checkSparseNonnegative(P, "transition matrix");
-  else checkDenseNonnegative(P, "transition matrix");
-  const S = toSparse(P);
+  if (!isSparseMatrix(P)) return denseLogGraph(P);
+  checkSparseNonnegative(P, "transition matrix");
+  const S = P;
   const n = S.n;
   let nnz = 0;
   for (let p = 0; p < S.rowPtr[n]; p++) if (S.val[p] > 0) nnz++;
@@ -40,6 +40,34 @@ export function logGraph(P: DenseMatrix | SparseMatrix): LogGraph {
       const x = S.val[p];
       if (x > 0) {
         col[q] = S.col[p];
+        prob[q] = x;
+        logw[q] = Math.log(x);
+        q++;
+      }
+    }
+    if (q === rowPtr[i]) throw new EngineNumericError(`transition matrix: row ${i} has no positive entry`);
+    rowPtr[i + 1] = q;
+  }
+  return { n, rowPtr, col, logw, prob };
+}
+
+/** logGraph of a dense matrix, read straight from its rows (no sparse copy in between). */
+function denseLogGraph(P: DenseMatrix): LogGraph {
+  checkDenseNonnegative(P, "transition matrix");
+  const { n, data } = P;
+  let nnz = 0;
+  for (let p = 0; p < n * n; p++) if (data[p] > 0) nnz++;
+  const rowPtr = new Int32Array(n + 1);
+  const col = new Int32Array(nnz);
+  const logw = new Float64Array(nnz);
+  const prob = new Float64Array(nnz);
+  let q = 0;
+  for (let i = 0; i < n; i++) {
+    const r = i * n;
+    for (let j = 0; j < n; j++) {
+      const x = data[r + j];
+      if (x > 0) {
+        col[q] = j;
         prob[q] = x;
         logw[q] = Math.log(x);
         q++;
@@ -185,6 +213,7 @@ export function howardMaxMeanCycle(G: LogGraph): HowardResult {
     stamp.fill(-1);
     done.fill(0);
     bestMean = -Infinity;
+    let cycles = 0;
     for (let s = 0; s < n; s++) {
       if (stamp[s] !== -1) continue;
       let u = s;
@@ -194,6 +223,7 @@ export function howardMaxMeanCycle(G: LogGraph): HowardResult {
       }
       if (stamp[u] !== s || done[u]) continue;
       // u lies on a new cycle.
+      cycles++;
       const acc = new Accumulator();
       let len = 0;
       let w = u;
@@ -226,9 +256,10 @@ export function howardMaxMeanCycle(G: LogGraph): HowardResult {
       }
     }
     if (iterations >= maxIterations) break;
-    // Improvement: first by η, then (if η cannot improve anywhere) by bias.
+    // Improvement: first by η, then (if η cannot improve anywhere) by bias. With a single policy
+    // cycle every η is the same number, so the η pass cannot change anything and is skipped.
     let changed = false;
-    for (let v = 0; v < n; v++) {
+    for (let v = 0; v < n && cycles > 1; v++) {
       let best = policy[v];
       let bestEta = eta[col[best]];
       for (let p = rowPtr[v]; p < rowPtr[v + 1]; p++) {

@@ -5,6 +5,7 @@ import type { DenseMatrix, SparseMatrix } from "./types";
 import { Accumulator } from "./numeric";
 import { EngineNumericError, checkDenseNonnegative, checkSparseNonnegative, isSparseMatrix, transposeSparse } from "./sparse";
 import { classify } from "./classify";
+import { gthWorkspace, type Deferred4 } from "./wasm/gth-kernel";
 
 /** A numerical precondition failed (reducible chain, bad shape, non-finite entry, α = 1 …). */
 export { EngineNumericError };
@@ -25,6 +26,79 @@ function gthFailure(P: DenseMatrix): EngineNumericError {
 // each of its rows once per panel instead of once per state (cache blocking, as in blocked LU).
 const GTH_PANEL = 32;
 
+// From this many states on, the deferred update runs in the WebAssembly kernel when available.
+const GTH_KERNEL_MIN = 128;
+
+/** GTH panel columns of one leading row (offset ri): scale a_ik by the pivot's 1/s and spread it over the panel columns below k. */
+function gthPanelColumns(a: Float64Array, n: number, ri: number, top: number, k0: number, inv: Float64Array): void {
+  for (let k = top; k >= k0; k--) {
+    const f = (a[ri + k] *= inv[top - k]);
+    if (f === 0 || k === k0) continue;
+    const rk = k * n;
+    for (let j = k0; j < k; j++) a[ri + j] += f * a[rk + j];
+  }
+}
+
+/** Deferred GTH update of four consecutive leading rows (offset r0) over the columns j < k0, four panel rows at a time. */
+function gthDeferred4(a: Float64Array, n: number, r0: number, top: number, k0: number, kernel: Deferred4 | null): void {
+  const r1 = r0 + n;
+  const r2 = r1 + n;
+  const r3 = r2 + n;
+  let k = top;
+  if (kernel) {
+    // The same sums in WebAssembly SIMD (wasm/gth-kernel.wat), two columns per instruction.
+    const n8 = 8 * n;
+    for (; k - 3 >= k0; k -= 4) {
+      kernel(8 * r0, k * n8, n8, k0,
+        a[r0 + k], a[r0 + k - 1], a[r0 + k - 2], a[r0 + k - 3],
+        a[r1 + k], a[r1 + k - 1], a[r1 + k - 2], a[r1 + k - 3],
+        a[r2 + k], a[r2 + k - 1], a[r2 + k - 2], a[r2 + k - 3],
+        a[r3 + k], a[r3 + k - 1], a[r3 + k - 2], a[r3 + k - 3]);
+    }
+  }
+  for (; k - 3 >= k0; k -= 4) {
+    const f0 = a[r0 + k], f1 = a[r0 + k - 1], f2 = a[r0 + k - 2], f3 = a[r0 + k - 3];
+    const g0 = a[r1 + k], g1 = a[r1 + k - 1], g2 = a[r1 + k - 2], g3 = a[r1 + k - 3];
+    const h0 = a[r2 + k], h1 = a[r2 + k - 1], h2 = a[r2 + k - 2], h3 = a[r2 + k - 3];
+    const m0 = a[r3 + k], m1 = a[r3 + k - 1], m2 = a[r3 + k - 2], m3 = a[r3 + k - 3];
+    const p0 = k * n;
+    const p1 = p0 - n;
+    const p2 = p1 - n;
+    const p3 = p2 - n;
+    for (let j = 0; j < k0; j++) {
+      const x0 = a[p0 + j];
+      const x1 = a[p1 + j];
+      const x2 = a[p2 + j];
+      const x3 = a[p3 + j];
+      a[r0 + j] += f0 * x0 + f1 * x1 + f2 * x2 + f3 * x3;
+      a[r1 + j] += g0 * x0 + g1 * x1 + g2 * x2 + g3 * x3;
+      a[r2 + j] += h0 * x0 + h1 * x1 + h2 * x2 + h3 * x3;
+      a[r3 + j] += m0 * x0 + m1 * x1 + m2 * x2 + m3 * x3;
+    }
+  }
+  for (; k >= k0; k--) {
+    const f0 = a[r0 + k], f1 = a[r1 + k], f2 = a[r2 + k], f3 = a[r3 + k];
+    const pk = k * n;
+    for (let j = 0; j < k0; j++) {
+      const x = a[pk + j];
+      a[r0 + j] += f0 * x;
+      a[r1 + j] += f1 * x;
+      a[r2 + j] += f2 * x;
+      a[r3 + j] += f3 * x;
+    }
+  }
+}
+
+/** Deferred GTH update of one leading row (offset ri) over the columns j < k0. */
+function gthDeferred1(a: Float64Array, n: number, ri: number, top: number, k0: number): void {
+  for (let k = top; k >= k0; k--) {
+    const f = a[ri + k];
+    if (f === 0) continue;
+    const rk = k * n;
+    for (let j = 0; j < k0; j++) a[ri + j] += f * a[rk + j];
+  }
+}
+
 /**
  * The stationary distribution of an irreducible chain by GTH state reduction (Grassmann, Taksar
  * and Heyman 1985): states are eliminated one by one, the pivot is the off-diagonal row sum and no
@@ -34,76 +108,62 @@ const GTH_PANEL = 32;
  * O(n³/3) time, one n² Float64Array copy; the elimination is blocked in panels for cache reuse.
  * Throws EngineNumericError if P is malformed, has a negative or non-finite entry, or is reducible.
  */
-export function stationaryGTH(P: DenseMatrix, opts: { order?: "forward" | "reverse" } = {}): Float64Array {
+export function stationaryGTH(P: DenseMatrix, opts: { order?: "forward" | "reverse"; kernel?: "auto" | "js" } = {}): Float64Array {
   checkDenseNonnegative(P, "transition matrix");
   const n = P.n;
   if (n === 1) return new Float64Array([1]);
   // No separate irreducibility pass: structural zeros stay exact zeros under GTH, so a reducible
   // chain shows up as a vanishing pivot or a zero component (then classify names the classes).
   const reverse = opts.order === "reverse";
-  const a = new Float64Array(n * n);
+  // Small chains stay in JavaScript (the kernel's set-up would cost more than it saves).
+  const { a, deferred4 } = gthWorkspace(n * n, opts.kernel !== "js" && n >= GTH_KERNEL_MIN);
   if (reverse) {
     for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) a[i * n + j] = P.data[(n - 1 - i) * n + (n - 1 - j)];
   } else a.set(P.data);
 
+  const inv = new Float64Array(GTH_PANEL);
   for (let top = n - 1; top >= 1; top -= GTH_PANEL) {
     const k0 = Math.max(1, top - GTH_PANEL + 1);
-    // Panel: eliminate states top … k0, updating every entry with at least one index in the panel.
+    // Panel: eliminate states top … k0 among the panel rows, each over its full prefix j < k.
     for (let k = top; k >= k0; k--) {
       const rk = k * n;
       let s = 0;
       for (let j = 0; j < k; j++) s += a[rk + j];
       if (!(s > 0)) throw gthFailure(P);
-      const inv = 1 / s;
-      for (let i = 0; i < k; i++) a[i * n + k] *= inv;
-      // Panel rows: the full prefix j < k.
+      const v = 1 / s;
+      inv[top - k] = v;
       for (let i = k0; i < k; i++) {
-        const f = a[i * n + k];
-        if (f === 0) continue;
         const ri = i * n;
+        const f = (a[ri + k] *= v);
+        if (f === 0) continue;
         for (let j = 0; j < k; j++) a[ri + j] += f * a[rk + j];
       }
-      // Leading rows: only the panel columns k0 ≤ j < k (the rest is deferred).
-      if (k > k0) {
-        for (let i = 0; i < k0; i++) {
-          const ri = i * n;
-          const f = a[ri + k];
-          if (f === 0) continue;
-          for (let j = k0; j < k; j++) a[ri + j] += f * a[rk + j];
-        }
-      }
     }
-    // Deferred update of the leading block: A11 += A12 · A21 over the panel, four panel rows at a time.
-    for (let i = 0; i < k0; i++) {
-      const ri = i * n;
-      let k = top;
-      for (; k - 3 >= k0; k -= 4) {
-        const f0 = a[ri + k];
-        const f1 = a[ri + k - 1];
-        const f2 = a[ri + k - 2];
-        const f3 = a[ri + k - 3];
-        if (f0 === 0 && f1 === 0 && f2 === 0 && f3 === 0) continue;
-        const r0 = k * n;
-        const r1 = r0 - n;
-        const r2 = r1 - n;
-        const r3 = r2 - n;
-        for (let j = 0; j < k0; j++) a[ri + j] += f0 * a[r0 + j] + f1 * a[r1 + j] + f2 * a[r2 + j] + f3 * a[r3 + j];
-      }
-      for (; k >= k0; k--) {
-        const f = a[ri + k];
-        if (f === 0) continue;
-        const rk = k * n;
-        for (let j = 0; j < k0; j++) a[ri + j] += f * a[rk + j];
-      }
+    // Leading rows i < k0, four at a time: first the panel columns, row by row in pivot order (each
+    // row's panel part depends only on itself and the panel rows), then the deferred update
+    // A11 += A12 · A21, four panel rows at a time (register blocking; each leading row is read and
+    // written once per panel).
+    let i = 0;
+    for (; i + 3 < k0; i += 4) {
+      gthPanelColumns(a, n, i * n, top, k0, inv);
+      gthPanelColumns(a, n, (i + 1) * n, top, k0, inv);
+      gthPanelColumns(a, n, (i + 2) * n, top, k0, inv);
+      gthPanelColumns(a, n, (i + 3) * n, top, k0, inv);
+      gthDeferred4(a, n, i * n, top, k0, deferred4);
+    }
+    for (; i < k0; i++) {
+      gthPanelColumns(a, n, i * n, top, k0, inv);
+      gthDeferred1(a, n, i * n, top, k0);
     }
   }
-  // Back substitution: x₀ = 1, x_k = Σ_{i<k} x_i a_ik, then normalise.
+  // Back substitution x₀ = 1, x_k = Σ_{i<k} x_i a_ik, row by row: once x_i is complete it is added
+  // into every later x_k (reads each row of a contiguously instead of each column with stride n).
   const x = new Float64Array(n);
   x[0] = 1;
-  for (let k = 1; k < n; k++) {
-    let s = 0;
-    for (let i = 0; i < k; i++) s += x[i] * a[i * n + k];
-    x[k] = s;
+  for (let i = 0; i < n - 1; i++) {
+    const xi = x[i];
+    const ri = i * n;
+    for (let k = i + 1; k < n; k++) x[k] += xi * a[ri + k];
   }
   const acc = new Accumulator();
   for (let i = 0; i < n; i++) acc.add(x[i]);
