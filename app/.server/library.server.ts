@@ -63,16 +63,32 @@ function rateBits(figures: unknown, key: "entropyRate" | "minEntropyRate"): numb
   return typeof bits === "number" && Number.isFinite(bits) ? bits : null;
 }
 
-async function findModel(slug: string): Promise<ModelSummary | null> {
-  const [row] = await db().select(modelColumns).from(models).where(eq(models.slug, slug)).limit(1);
+/**
+ * Whom a read is for. Synthetic scale-test models (models.is_synthetic, from
+ * `npm run seed:synthetic`) are not part of the library: every read below answers as if they did
+ * not exist unless the caller is server code that asks for them (the benchmark); no request
+ * parameter sets this.
+ */
+export interface LibraryReadOptions {
+  includeSynthetic?: boolean;
+}
+
+async function findModel(slug: string, options: LibraryReadOptions = {}): Promise<ModelSummary | null> {
+  const bySlug = eq(models.slug, slug);
+  const [row] = await db()
+    .select(modelColumns)
+    .from(models)
+    .where(options.includeSynthetic ? bySlug : and(bySlug, eq(models.isSynthetic, false)))
+    .limit(1);
   return row ?? null;
 }
 
-/** A model and its edition list (oldest first), or null for an unknown slug. */
+/** A model and its edition list (oldest first), or null for an unknown slug (or a synthetic model). */
 export async function getModelWithEditions(
   slug: string,
+  options: LibraryReadOptions = {},
 ): Promise<{ model: ModelSummary; editions: EditionSummary[] } | null> {
-  const model = await findModel(slug);
+  const model = await findModel(slug, options);
   if (!model) return null;
   const rows = await db()
     .select({
@@ -142,17 +158,17 @@ async function loadEdition(model: ModelSummary, number: number): Promise<Edition
 /** Edition numbers are PostgreSQL integers; a larger number cannot name an edition. */
 const MAX_EDITION_NUMBER = 2_147_483_647;
 
-/** One edition of a model, or null for an unknown slug or number. */
-export async function getEdition(slug: string, number: number): Promise<EditionRecord | null> {
+/** One edition of a model, or null for an unknown slug or number (or a synthetic model). */
+export async function getEdition(slug: string, number: number, options: LibraryReadOptions = {}): Promise<EditionRecord | null> {
   if (!Number.isSafeInteger(number) || number < 1 || number > MAX_EDITION_NUMBER) return null;
-  const model = await findModel(slug);
+  const model = await findModel(slug, options);
   if (!model) return null;
   return loadEdition(model, number);
 }
 
-/** The newest edition that is not retracted, else the newest; null for an unknown slug. */
-export async function getLatestEdition(slug: string): Promise<EditionRecord | null> {
-  const model = await findModel(slug);
+/** The newest edition that is not retracted, else the newest; null for an unknown slug (or a synthetic model). */
+export async function getLatestEdition(slug: string, options: LibraryReadOptions = {}): Promise<EditionRecord | null> {
+  const model = await findModel(slug, options);
   if (!model) return null;
   const [row] = await db()
     .select({ number: editions.number })

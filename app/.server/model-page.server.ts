@@ -20,6 +20,11 @@ export interface ModelPageRequest {
   to?: number;
   /** The request URL, for the absolute permanent URL when ERGOSHELF_BASE_URL is not set. */
   url: string;
+  /**
+   * Show a synthetic scale-test model too (server code only: the benchmark). The routes never set
+   * it, so visitors get the same 404 for a synthetic model as for an unknown slug.
+   */
+  includeSynthetic?: boolean;
 }
 
 export interface ModelPageDiff {
@@ -79,11 +84,13 @@ function chooseDiff(editions: readonly EditionSummary[], shown: number, from?: n
 /**
  * Everything the model page shows for one edition: the model, its edition list, the stored figures
  * and verification, the citation, and the comparison the diff form asks for. Throws a 404 response
- * for an unknown slug or an unknown edition of a known model (the latter names the model's page).
+ * for an unknown slug, a synthetic model (unless `includeSynthetic`) or an unknown edition of a
+ * known model (the latter names the model's page).
  * Cost: three to four indexed queries; no engine computation.
  */
 export async function loadModelPage(req: ModelPageRequest): Promise<ModelPageData> {
-  const listing = await getModelWithEditions(req.slug);
+  const reading = { includeSynthetic: req.includeSynthetic ?? false };
+  const listing = await getModelWithEditions(req.slug, reading);
   if (!listing || listing.editions.length === 0) notFound(`There is no model “${req.slug}” in the library.`);
   const { model, editions } = listing;
   const currentNumber = currentEditionNumber(editions);
@@ -100,7 +107,7 @@ export async function loadModelPage(req: ModelPageRequest): Promise<ModelPageDat
   const loaded = new Map<number, EditionRecord>();
   await Promise.all(
     needed.map(async (n) => {
-      const r = await getEdition(model.slug, n);
+      const r = await getEdition(model.slug, n, reading);
       if (r) loaded.set(n, r);
     }),
   );

@@ -1,6 +1,7 @@
 // The three citation downloads over HTTP: status, type, file name, a body that parses, the
 // permanent URL on the server's origin, 400/404 with a clear text message, and ETag/304.
-// The model is created here (marked synthetic), so the test does not depend on the seed's rows.
+// The model is created here, so the test does not depend on the seed's rows; afterwards it is
+// marked synthetic, which takes it out of the library (editions cannot be deleted).
 import { randomBytes } from "node:crypto";
 import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -19,7 +20,7 @@ beforeAll(async () => {
   entropyRateBits = figures.entropyRate!.bits;
   const [model] = await db()
     .insert(models)
-    .values({ slug, title, family: "two-state", summary: "Float gauge wet/dry state at Brannock Point.", isSynthetic: true })
+    .values({ slug, title, family: "two-state", summary: "Float gauge wet/dry state at Brannock Point.", isSynthetic: false })
     .returning();
   await db()
     .insert(editions)
@@ -37,7 +38,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  // Editions cannot be deleted; the model stays, marked synthetic, so the library ignores it.
+  await db().update(models).set({ isSynthetic: true }).where(eq(models.slug, slug));
 });
 
 const formats = [

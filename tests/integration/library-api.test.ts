@@ -1,7 +1,7 @@
 // The read-only library API: shapes, errors, and the cache validators of editions.
 import { createHash, randomBytes } from "node:crypto";
 import canonicalize from "canonicalize";
-import { eq } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/.server/db.server";
 import { editions, models } from "~/.server/schema";
@@ -112,12 +112,13 @@ describe("GET /api/v1/models/:slug/editions/:n", () => {
 });
 
 describe("a retraction changes an edition's ETag", () => {
-  // A model of this file's own, marked synthetic so the library ignores it (editions cannot be deleted).
+  // A model of this file's own, in the library for the test and marked synthetic afterwards, so the
+  // library stops showing it (editions cannot be deleted).
   const slug = `api-etag-${randomBytes(4).toString("hex")}`;
   let editionId = "";
   beforeAll(async () => {
     const params = { family: "iid", alphabet: ["0", "1"], p: [0.5, 0.5] };
-    const [model] = await db().insert(models).values({ slug, title: "ETag check", family: "iid", summary: "A test model.", isSynthetic: true }).returning();
+    const [model] = await db().insert(models).values({ slug, title: "ETag check", family: "iid", summary: "A test model.", isSynthetic: false }).returning();
     const [ed] = await db()
       .insert(editions)
       .values({ modelId: model.id, number: 1, params, contentHash: createHash("sha256").update(canonicalize(params)!).digest("hex"), figures: {}, verification: {}, engineVersion: "test" })
@@ -125,7 +126,7 @@ describe("a retraction changes an edition's ETag", () => {
     editionId = ed.id;
   });
   afterAll(async () => {
-    // Nothing to remove: the model stays synthetic, and its edition cannot be deleted.
+    await db().update(models).set({ isSynthetic: true, updatedAt: sql`now()` }).where(eq(models.slug, slug));
   });
 
   it("gives a new ETag, so a cached copy is not confirmed", async () => {
@@ -137,5 +138,37 @@ describe("a retraction changes an edition's ETag", () => {
     expect(after.status).toBe(200);
     expect(after.headers.get("etag")).toMatch(/-retracted"$/);
     expect((await after.json()).retraction.reason).toBe("test retraction");
+  });
+});
+
+describe("synthetic scale-test models", () => {
+  // Models from `npm run seed:synthetic` exist for benchmarks only: every page and API answer
+  // treats them as unknown. This one is the file's own, synthetic from the start.
+  const slug = `api-synthetic-${randomBytes(4).toString("hex")}`;
+  beforeAll(async () => {
+    const params = { family: "iid", alphabet: ["0", "1"], p: [0.25, 0.75] };
+    const [model] = await db().insert(models).values({ slug, title: "Synthetic check", family: "iid", summary: "A test model.", isSynthetic: true }).returning();
+    await db()
+      .insert(editions)
+      .values({ modelId: model.id, number: 1, params, contentHash: createHash("sha256").update(canonicalize(params)!).digest("hex"), figures: {}, verification: {}, engineVersion: "test" });
+  });
+
+  it("answers 404 on the API, as for an unknown slug", async () => {
+    for (const path of [`/api/v1/models/${slug}`, `/api/v1/models/${slug}/editions/1`]) {
+      const r = await json(path);
+      expect(r.res.status, path).toBe(404);
+      expect(r.body.error.message, path).toMatch(/has no (model|edition)/);
+    }
+  });
+  it("answers 404 on the model page and its permalink", async () => {
+    for (const path of [`/library/${slug}`, `/library/${slug}/e/1`]) {
+      const res = await fetch(`${process.env.ERGOSHELF_TEST_BASE_URL}${path}`);
+      expect(res.status, path).toBe(404);
+    }
+  });
+  it("is left out of the model list", async () => {
+    const r = await json(`/api/v1/models?q=${encodeURIComponent("Synthetic check")}&pageSize=100`);
+    expect(r.res.status).toBe(200);
+    expect(JSON.stringify(r.body)).not.toContain(slug);
   });
 });
