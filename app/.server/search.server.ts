@@ -78,8 +78,10 @@ export function processTerm(term: string): string | null {
   return STOP_WORDS.has(t) ? null : t;
 }
 
+/** The indexed fields, in minisearch's order (a document's score adds up its fields in this order). */
+const FIELDS = ["title", "summary", "tags", "family", "names"] as const;
 /** Field boosts: a title hit outranks the same word in a summary. */
-const BOOST = { title: 3, tags: 2, family: 1.5, names: 1, summary: 1 };
+const BOOST: Record<(typeof FIELDS)[number], number> = { title: 3, tags: 2, family: 1.5, names: 1, summary: 1 };
 /**
  * Typo allowance 0.2 of a term's length (one edit from 4 letters, two from 8). Shorter terms get
  * none: one edit in a 3-letter word matches a large part of the vocabulary and mostly adds noise.
@@ -116,12 +118,19 @@ interface Doc {
   stateRanges: number[];
 }
 
-interface BuiltIndex {
+/** An index of the library (or of a list of models, in tests). */
+export interface BuiltIndex {
   version: string;
+  /** Tokenizes and holds the vocabulary and postings; queries read them through `postings`. */
   mini: MiniSearch;
+  postings: Postings;
+  /** Scoring buffers, one slot per document, all zero between uses (searches run one at a time). */
+  scratch: { sum: Float64Array; seen: Int32Array; mark: Uint8Array };
   all: Doc[];
   /** The display form of each tag (the first spelling met), by tag id. */
   tagValues: string[];
+  /** Tag ids by tagKey. */
+  tagIdByKey: Map<string, number>;
   textCache: Map<string, Candidate[]>;
   wordCache: Map<string, WordHits>;
   wordCacheEntries: number;
@@ -171,6 +180,23 @@ const numberOrNull = (v: unknown): number | null => {
   return Number.isFinite(n) ? n : null;
 };
 
+/** One model as the index takes it: its text and its current edition's figures. */
+export interface IndexedModel {
+  slug: string;
+  title: string;
+  family: string;
+  summary: string;
+  tags: string[];
+  /** The number of the current edition (the newest not retracted, else the newest). */
+  latestEdition: number;
+  states: number | null;
+  entropyRateBits: number | null;
+  minEntropyRateBits: number | null;
+  updatedAt: Date;
+  /** The edition's alphabet, state and node names, space-separated (at most MAX_NAMES). */
+  names: string;
+}
+
 /** Loads every model with its latest edition (newest not retracted, else newest) and indexes it. */
 async function buildIndex(includeSynthetic: boolean): Promise<BuiltIndex> {
   const started = performance.now();
@@ -192,29 +218,51 @@ async function buildIndex(includeSynthetic: boolean): Promise<BuiltIndex> {
     join editions e on e.model_id = m.id
     where ${includeSynthetic ? sql`true` : sql`not m.is_synthetic`}
     order by m.id, (e.retracted_at is null) desc, e.number desc`);
+  const models: IndexedModel[] = (result.rows as Record<string, unknown>[]).map((r) => ({
+    slug: String(r.slug),
+    title: String(r.title),
+    family: String(r.family),
+    summary: String(r.summary),
+    tags: (r.tags as string[] | null) ?? [],
+    latestEdition: Number(r.number),
+    states: numberOrNull(r.states),
+    entropyRateBits: numberOrNull(r.rate),
+    minEntropyRateBits: numberOrNull(r.min_rate),
+    updatedAt: r.updated_at instanceof Date ? r.updated_at : new Date(String(r.updated_at)),
+    names: typeof r.names === "string" ? r.names : "",
+  }));
+  const built = createSearchIndex(models, version);
+  built.builtInMs = performance.now() - started;
+  return built;
+}
 
+/**
+ * An index over `models` (in this order), without the database: the server builds it from
+ * PostgreSQL; tests build it from the catalogue files. Cost: O(total text) plus two sorts.
+ */
+export function createSearchIndex(models: readonly IndexedModel[], version = ""): BuiltIndex {
+  const started = performance.now();
   const familyIndex = new Map<string, number>(FAMILIES.map((f, i) => [f, i]));
-  const all: Doc[] = (result.rows as Record<string, unknown>[]).map((r, id) => {
-    const tags = (r.tags as string[] | null) ?? [];
-    const states = numberOrNull(r.states);
+  const all: Doc[] = models.map((m, id) => {
+    const states = m.states;
     return {
       id,
-      slug: String(r.slug),
-      title: String(r.title),
-      family: String(r.family),
-      summary: String(r.summary),
-      tags,
-      tagKeys: tags.map(tagKey),
-      latestEdition: Number(r.number),
+      slug: m.slug,
+      title: m.title,
+      family: m.family,
+      summary: m.summary,
+      tags: m.tags,
+      tagKeys: m.tags.map(tagKey),
+      latestEdition: m.latestEdition,
       states,
-      entropyRateBits: numberOrNull(r.rate),
-      minEntropyRateBits: numberOrNull(r.min_rate),
-      updatedAt: r.updated_at instanceof Date ? r.updated_at : new Date(String(r.updated_at)),
-      names: typeof r.names === "string" ? r.names : "",
+      entropyRateBits: m.entropyRateBits,
+      minEntropyRateBits: m.minEntropyRateBits,
+      updatedAt: m.updatedAt,
+      names: m.names,
       titleRank: 0,
       updatedRank: 0,
       tagIds: [],
-      familyIndex: familyIndex.get(String(r.family)) ?? -1,
+      familyIndex: familyIndex.get(m.family) ?? -1,
       stateRanges: states === null ? [] : STATE_RANGES.flatMap((g, i) => (states >= g.min && (g.max === null || states <= g.max) ? [i] : [])),
     };
   });
@@ -241,7 +289,7 @@ async function buildIndex(includeSynthetic: boolean): Promise<BuiltIndex> {
   [...all].sort((a, b) => a.updatedAt.getTime() - b.updatedAt.getTime() || a.titleRank - b.titleRank).forEach((d, i) => (d.updatedRank = i));
 
   const mini = new MiniSearch<{ id: number; title: string; summary: string; tags: string; family: string; names: string }>({
-    fields: ["title", "summary", "tags", "family", "names"],
+    fields: [...FIELDS],
     storeFields: [],
     processTerm,
     searchOptions: TEXT_OPTIONS,
@@ -256,7 +304,19 @@ async function buildIndex(includeSynthetic: boolean): Promise<BuiltIndex> {
       names: d.names,
     })),
   );
-  return { version, mini, all, tagValues, textCache: new Map(), wordCache: new Map(), wordCacheEntries: 0, builtInMs: performance.now() - started };
+  return {
+    version,
+    mini,
+    postings: postingsOf(mini, all.length),
+    scratch: { sum: new Float64Array(all.length), seen: new Int32Array(all.length), mark: new Uint8Array(all.length) },
+    all,
+    tagValues,
+    tagIdByKey: tagIds,
+    textCache: new Map(),
+    wordCache: new Map(),
+    wordCacheEntries: 0,
+    builtInMs: performance.now() - started,
+  };
 }
 
 /** The current index for these options, built or refreshed as needed. */
@@ -277,6 +337,11 @@ async function currentIndex(options: SearchIndexOptions = {}): Promise<BuiltInde
   s.stale = false;
   s.checkedAt = Date.now();
   return built;
+}
+
+/** The index searches use now, built or refreshed as needed (the benchmark checks its scores). */
+export function currentSearchIndex(options: SearchIndexOptions = {}): Promise<BuiltIndex> {
+  return currentIndex(options);
 }
 
 /** Builds the index afresh now (benchmarks, warm-up); returns its size and build time. */
@@ -326,7 +391,7 @@ export function clearSearchTextCache(): void {
 }
 
 /** One word's matches: document ids (positions in BuiltIndex.all) and minisearch's score of the word alone. */
-interface WordHits {
+export interface WordHits {
   ids: Int32Array;
   scores: Float64Array;
 }
@@ -340,6 +405,171 @@ export function queryTerms(q: string): string[] {
     .filter((t): t is string => !!t);
 }
 
+// ---------------------------------------------------------------------------------------------
+// Scoring one word. minisearch's own search builds a result object per matching document (with
+// the matched terms and fields) and sorts them; for a word found in a third of the library or
+// more that was most of a query's time. scoreWord computes the same scores, operation for
+// operation (minisearch 7.2's executeQuerySpec, termResults and calcBM25Score with the default
+// weights and BM25 parameters), into a flat buffer, reading minisearch's vocabulary and postings.
+// tests/unit/search-word-scores.test.ts checks it against minisearch's search for every word of
+// the catalogue, so an upgrade that changes either side fails there.
+
+/** A term's postings: field id → (minisearch's short document id → occurrences in that field). */
+type TermData = Map<number, Map<number, number>>;
+
+/** The parts of minisearch's index the scorer reads (present in minisearch 7). */
+interface MiniInternals {
+  _index: {
+    get(term: string): TermData | undefined;
+    atPrefix(prefix: string): Iterable<[string, TermData]>;
+    fuzzyGet(term: string, maxDistance: number): Map<string, [TermData, number]>;
+  };
+  _fieldIds: Record<string, number>;
+  _fieldLength: Map<number, number[]>;
+  _avgFieldLength: number[];
+  _documentCount: number;
+  _documentIds: Map<number, unknown>;
+}
+
+/** What scoreWord needs of an index, taken out once per build. */
+interface Postings {
+  vocabulary: MiniInternals["_index"];
+  /** Per field in FIELDS order: minisearch's field id, its boost and average length. */
+  fields: { id: number; boost: number; avgLength: number }[];
+  /** Field lengths by [field id][short document id] (unique terms, as minisearch counts them). */
+  lengths: Float64Array[];
+  /** Our document id (position in BuiltIndex.all) by minisearch's short id. */
+  docIds: Int32Array;
+  documentCount: number;
+}
+
+/** minisearch's defaults (defaultSearchOptions in minisearch 7): BM25+ parameters, match weights. */
+const BM25 = { k: 1.2, b: 0.7, d: 0.5 };
+const MATCH_WEIGHTS = { fuzzy: 0.45, prefix: 0.375 };
+const MAX_FUZZY = 6;
+/**
+ * Words from this length get transposition variants, as they get a typo allowance: a swap in a
+ * 3-letter word mostly lands on another common word ("rae" → "are", in nearly every summary).
+ */
+const TRANSPOSITION_MIN_LENGTH = 4;
+
+function postingsOf(mini: MiniSearch, documents: number): Postings {
+  const m = mini as unknown as MiniInternals;
+  if (!m._index || typeof m._index.atPrefix !== "function" || !(m._fieldLength instanceof Map) || !(m._documentIds instanceof Map)) {
+    throw new Error("search: this minisearch version does not have the index layout the word scorer reads (minisearch 7)");
+  }
+  const lengths: Float64Array[] = [];
+  const fields = FIELDS.map((name) => {
+    const id = m._fieldIds[name];
+    lengths[id] = new Float64Array(documents);
+    return { id, boost: BOOST[name], avgLength: m._avgFieldLength[id] };
+  });
+  const docIds = new Int32Array(m._documentIds.size);
+  for (const [short, id] of m._documentIds) docIds[short] = id as number;
+  for (const [short, perField] of m._fieldLength) {
+    for (const f of fields) lengths[f.id][short] = perField[f.id];
+  }
+  return { vocabulary: m._index, fields, lengths, docIds, documentCount: m._documentCount };
+}
+
+/**
+ * The words one adjacent swap away from `term` ("bouy" → "obuy", "buoy", "boyu"), each once,
+ * `term` itself left out.
+ */
+export function adjacentTranspositions(term: string): string[] {
+  const out = new Set<string>();
+  const chars = [...term];
+  for (let i = 0; i + 1 < chars.length; i++) {
+    if (chars[i] === chars[i + 1]) continue;
+    const swapped = [...chars];
+    [swapped[i], swapped[i + 1]] = [swapped[i + 1], swapped[i]];
+    out.add(swapped.join(""));
+  }
+  out.delete(term);
+  return [...out];
+}
+
+/**
+ * One query word's matches and scores, as minisearch's search for the word alone scores them:
+ * the word itself (weight 1), every longer word it begins (prefix weight), every word within the
+ * typo allowance (fuzzy weight), each field's BM25+ score times the field's boost, added up per
+ * document in that order. When the word is neither in the vocabulary nor the beginning of any word
+ * in it, the vocabulary words one adjacent transposition away that the typo allowance did not
+ * already reach ("bouy" → "buoy": two edits) are added with the weight of a one-edit typo
+ * (`transpositions: false` leaves them out, to compare with minisearch's own search).
+ * Cost: O(postings of the matched words); allocates only the result.
+ */
+export function scoreWord(index: BuiltIndex, term: string, options: { transpositions?: boolean } = {}): WordHits {
+  const p = index.postings;
+  const { sum, mark } = index.scratch;
+  const touched: number[] = [];
+  const { k, b, d } = BM25;
+  const add = (weight: number, data: TermData | undefined) => {
+    if (!data) return;
+    for (const f of p.fields) {
+      const freqs = data.get(f.id);
+      if (!freqs) continue;
+      const matching = freqs.size;
+      const invDocFreq = Math.log(1 + (p.documentCount - matching + 0.5) / (matching + 0.5));
+      const weighted = weight * f.boost;
+      const lengths = p.lengths[f.id];
+      const avgFieldLength = f.avgLength;
+      for (const [short, termFreq] of freqs) {
+        const fieldLength = lengths[short];
+        const rawScore = invDocFreq * (d + (termFreq * (k + 1)) / (termFreq + k * (1 - b + (b * fieldLength) / avgFieldLength)));
+        const id = p.docIds[short];
+        if (!mark[id]) {
+          mark[id] = 1;
+          touched.push(id);
+        }
+        sum[id] += weighted * rawScore;
+      }
+    }
+  };
+
+  const exact = p.vocabulary.get(term);
+  add(1, exact);
+  const fuzzy = (TEXT_OPTIONS.fuzzy as (t: string, i: number, all: string[]) => number | false)(term, 0, [term]);
+  const prefix = (TEXT_OPTIONS.prefix as (t: string, i: number, all: string[]) => boolean)(term, 0, [term]);
+  let fuzzyMatches: Map<string, [TermData, number]> | undefined;
+  if (fuzzy) {
+    const maxDistance = fuzzy < 1 ? Math.min(MAX_FUZZY, Math.round(term.length * fuzzy)) : fuzzy;
+    if (maxDistance) fuzzyMatches = p.vocabulary.fuzzyGet(term, maxDistance);
+  }
+  let begins = false;
+  if (prefix) {
+    for (const [word, data] of p.vocabulary.atPrefix(term)) {
+      const distance = word.length - term.length;
+      if (!distance) continue;
+      begins = true;
+      fuzzyMatches?.delete(word); // scored as a prefix match only
+      add((MATCH_WEIGHTS.prefix * word.length) / (word.length + 0.3 * distance), data);
+    }
+  }
+  if (fuzzyMatches) {
+    for (const [word, [data, distance]] of fuzzyMatches) {
+      if (!distance) continue;
+      add((MATCH_WEIGHTS.fuzzy * word.length) / (word.length + distance), data);
+    }
+  }
+  if (options.transpositions !== false && !exact && !begins && term.length >= TRANSPOSITION_MIN_LENGTH) {
+    for (const word of adjacentTranspositions(term)) {
+      if (fuzzyMatches?.has(word)) continue;
+      add((MATCH_WEIGHTS.fuzzy * word.length) / (word.length + 1), p.vocabulary.get(word));
+    }
+  }
+
+  const found: WordHits = { ids: new Int32Array(touched.length), scores: new Float64Array(touched.length) };
+  for (let i = 0; i < touched.length; i++) {
+    const id = touched[i];
+    found.ids[i] = id;
+    found.scores[i] = sum[id];
+    sum[id] = 0;
+    mark[id] = 0;
+  }
+  return found;
+}
+
 function wordHits(index: BuiltIndex, term: string): WordHits {
   const cached = index.wordCache.get(term);
   if (cached) {
@@ -347,14 +577,9 @@ function wordHits(index: BuiltIndex, term: string): WordHits {
     index.wordCache.set(term, cached);
     return cached;
   }
-  const hits = index.mini.search(term);
-  const found: WordHits = { ids: new Int32Array(hits.length), scores: new Float64Array(hits.length) };
-  for (let i = 0; i < hits.length; i++) {
-    found.ids[i] = hits[i].id as number;
-    found.scores[i] = hits[i].score;
-  }
+  const found = scoreWord(index, term);
   index.wordCache.set(term, found);
-  index.wordCacheEntries += hits.length;
+  index.wordCacheEntries += found.ids.length;
   while (index.wordCacheEntries > WORD_CACHE_ENTRIES && index.wordCache.size > 1) {
     const [oldest, entry] = index.wordCache.entries().next().value!;
     index.wordCache.delete(oldest);
@@ -369,13 +594,17 @@ function wordHits(index: BuiltIndex, term: string): WordHits {
  * matched. With `all`, only documents matching every word count (AND), else any word (OR).
  */
 function combineWords(index: BuiltIndex, terms: string[], all: boolean): Candidate[] {
-  const n = index.all.length;
   const lists = terms.map((t) => wordHits(index, t));
-  const sum = new Float64Array(n);
-  const seen = new Int32Array(n); // AND: how many of the words so far matched; OR: distinct words matched
-  const touched = new Uint8Array(n);
-  const distinct = [...new Set(terms)];
   const out: Candidate[] = [];
+  if (lists.length === 1) {
+    // One word: its own scores (0 + s, times one distinct word).
+    const [list] = lists;
+    for (let i = 0; i < list.ids.length; i++) out.push({ doc: index.all[list.ids[i]], score: list.scores[i] });
+    return out;
+  }
+  // The index's buffers, all zero between uses; only the entries touched here are reset.
+  const { sum, seen, mark } = index.scratch; // AND: how many of the words so far matched; OR: distinct words matched
+  const distinct = [...new Set(terms)];
   if (all) {
     lists.forEach((list, w) => {
       for (let i = 0; i < list.ids.length; i++) {
@@ -390,14 +619,19 @@ function combineWords(index: BuiltIndex, terms: string[], all: boolean): Candida
       const id = last.ids[i];
       if (seen[id] === lists.length) out.push({ doc: index.all[id], score: sum[id] * distinct.length });
     }
+    // Only the first word's models can have been touched.
+    for (const id of lists[0].ids) {
+      sum[id] = 0;
+      seen[id] = 0;
+    }
     return out;
   }
   const order: number[] = [];
   for (const list of lists) {
     for (let i = 0; i < list.ids.length; i++) {
       const id = list.ids[i];
-      if (!touched[id]) {
-        touched[id] = 1;
+      if (!mark[id]) {
+        mark[id] = 1;
         order.push(id);
       }
       sum[id] += list.scores[i];
@@ -407,7 +641,12 @@ function combineWords(index: BuiltIndex, terms: string[], all: boolean): Candida
     const list = lists[terms.indexOf(t)];
     for (let i = 0; i < list.ids.length; i++) seen[list.ids[i]]++;
   }
-  for (const id of order) out.push({ doc: index.all[id], score: sum[id] * seen[id] });
+  for (const id of order) {
+    out.push({ doc: index.all[id], score: sum[id] * seen[id] });
+    sum[id] = 0;
+    seen[id] = 0;
+    mark[id] = 0;
+  }
   return out;
 }
 
@@ -419,28 +658,54 @@ function findText(index: BuiltIndex, q: string): Candidate[] {
   return every.length > 0 ? every : combineWords(index, terms, false);
 }
 
-type Filter = (d: Doc) => boolean;
+/** Bits of the facets whose filter rejects a model (see rejections). */
+const REJECTED_BY = { family: 1, states: 2, rate: 4, minEntropy: 8, tags: 16 } as const;
 
-/** The active filters of a query, by facet (a facet's own filter is left out of its counts). */
-export function facetFilters(query: SearchQuery): Record<"family" | "states" | "rate" | "minEntropy" | "tags", Filter | null> {
-  const families = query.family?.length ? new Set<string>(query.family) : null;
-  const tagKeys = query.tags?.length ? query.tags.map(tagKey) : null;
+/**
+ * The query's filters as one test: for a model, the bits (REJECTED_BY) of the active filters that
+ * reject it; 0 when it passes them all. A facet's counts take the models that pass every filter
+ * but its own, so the caller needs to know which one failed, not just whether one did.
+ */
+function rejections(query: SearchQuery, index: Pick<BuiltIndex, "tagIdByKey">): (d: Doc) => number {
+  let families: Uint8Array | null = null;
+  if (query.family?.length) {
+    families = new Uint8Array(FAMILIES.length);
+    for (const f of query.family) {
+      const i = (FAMILIES as readonly string[]).indexOf(f);
+      if (i >= 0) families[i] = 1;
+    }
+  }
+  // A tag no model has matches nothing: id -1 is in no model's list.
+  const tags = query.tags?.length ? query.tags.map((t) => index.tagIdByKey.get(tagKey(t)) ?? -1) : null;
   const { statesMin, statesMax, rateMin, rateMax, hasMinEntropy } = query;
-  return {
-    family: families ? (d) => families.has(d.family) : null,
-    states:
-      statesMin !== undefined || statesMax !== undefined
-        ? (d) => d.states !== null && (statesMin === undefined || d.states >= statesMin) && (statesMax === undefined || d.states <= statesMax)
-        : null,
-    rate:
-      rateMin !== undefined || rateMax !== undefined
-        ? (d) =>
-            d.entropyRateBits !== null &&
-            (rateMin === undefined || d.entropyRateBits >= rateMin - 1e-12) &&
-            (rateMax === undefined || d.entropyRateBits <= rateMax + 1e-12)
-        : null,
-    minEntropy: hasMinEntropy === undefined ? null : (d) => (d.minEntropyRateBits !== null) === hasMinEntropy,
-    tags: tagKeys ? (d) => tagKeys.every((t) => d.tagKeys.includes(t)) : null,
+  const byStates = statesMin !== undefined || statesMax !== undefined;
+  const byRate = rateMin !== undefined || rateMax !== undefined;
+  return (d) => {
+    let bits = 0;
+    if (families !== null && !(d.familyIndex >= 0 && families[d.familyIndex] === 1)) bits |= REJECTED_BY.family;
+    if (byStates && !(d.states !== null && (statesMin === undefined || d.states >= statesMin) && (statesMax === undefined || d.states <= statesMax))) {
+      bits |= REJECTED_BY.states;
+    }
+    if (
+      byRate &&
+      !(
+        d.entropyRateBits !== null &&
+        (rateMin === undefined || d.entropyRateBits >= rateMin - 1e-12) &&
+        (rateMax === undefined || d.entropyRateBits <= rateMax + 1e-12)
+      )
+    ) {
+      bits |= REJECTED_BY.rate;
+    }
+    if (hasMinEntropy !== undefined && (d.minEntropyRateBits !== null) !== hasMinEntropy) bits |= REJECTED_BY.minEntropy;
+    if (tags !== null) {
+      for (const t of tags) {
+        if (!d.tagIds.includes(t)) {
+          bits |= REJECTED_BY.tags;
+          break;
+        }
+      }
+    }
+    return bits;
   };
 }
 
@@ -537,17 +802,18 @@ function toRow(c: Candidate): SearchRow {
  * plus a pass over its matches; the index is built on first use and refreshed as described above.
  */
 export async function searchLibrary(query: SearchQuery, options: SearchIndexOptions = {}): Promise<SearchResult> {
-  const index = await currentIndex(options);
+  return searchIndex(await currentIndex(options), query);
+}
+
+/** searchLibrary's work on a given index (tests search an index of the catalogue files with it). */
+export function searchIndex(index: BuiltIndex, query: SearchQuery): SearchResult {
   const q = (query.q ?? "").trim();
   const sort: SearchSort = query.sort ?? "relevance";
   const dir = query.dir ?? defaultDirection(sort);
   const pageSize = Math.min(MAX_PAGE_SIZE, Math.max(1, Math.floor(query.pageSize ?? DEFAULT_PAGE_SIZE)));
   const page = Math.max(1, Math.floor(query.page ?? 1));
 
-  const filters = facetFilters(query);
-  const keys = Object.keys(filters) as (keyof typeof filters)[];
-  const active = keys.filter((k) => filters[k] !== null);
-
+  const rejected = rejections(query, index);
   const familyCounts = new Int32Array(FAMILIES.length);
   const tagCounts = new Int32Array(index.tagValues.length);
   const rangeCounts = STATE_RANGES.map(() => 0);
@@ -557,34 +823,26 @@ export async function searchLibrary(query: SearchQuery, options: SearchIndexOpti
   let rateMin: number | null = null;
   let rateMax: number | null = null;
   const rows: Candidate[] = [];
-  const activeFilters = active.map((k) => filters[k]!);
 
   for (const c of textMatches(index, q)) {
     const d = c.doc;
     // Which active filters reject this model: none → a result; exactly one → it still counts
     // in that facet (a facet's counts reflect the other filters, not its own).
-    let failed: (typeof active)[number] | null = null;
-    let failures = 0;
-    for (let i = 0; i < activeFilters.length && failures < 2; i++) {
-      if (!activeFilters[i](d)) {
-        failures++;
-        failed = active[i];
-      }
-    }
-    if (failures > 1) continue;
-    const all = failures === 0;
-    if ((all || failed === "family") && d.familyIndex >= 0) familyCounts[d.familyIndex]++;
-    if ((all || failed === "states") && d.states !== null) {
+    const failed = rejected(d);
+    if ((failed & (failed - 1)) !== 0) continue; // two or more
+    const all = failed === 0;
+    if ((all || failed === REJECTED_BY.family) && d.familyIndex >= 0) familyCounts[d.familyIndex]++;
+    if ((all || failed === REJECTED_BY.states) && d.states !== null) {
       const n = d.states;
       statesMin = statesMin === null ? n : Math.min(statesMin, n);
       statesMax = statesMax === null ? n : Math.max(statesMax, n);
       for (const i of d.stateRanges) rangeCounts[i]++;
     }
-    if ((all || failed === "rate") && d.entropyRateBits !== null) {
+    if ((all || failed === REJECTED_BY.rate) && d.entropyRateBits !== null) {
       rateMin = rateMin === null ? d.entropyRateBits : Math.min(rateMin, d.entropyRateBits);
       rateMax = rateMax === null ? d.entropyRateBits : Math.max(rateMax, d.entropyRateBits);
     }
-    if (all || failed === "minEntropy") {
+    if (all || failed === REJECTED_BY.minEntropy) {
       if (d.minEntropyRateBits !== null) minEntropy.with++;
       else minEntropy.without++;
     }
