@@ -25,9 +25,18 @@ const columnSortKey: Record<string, SortKey> = { title: "title", states: "states
 
 const features = tableFeatures({ rowSortingFeature });
 
+/**
+ * A rate in the table: four decimals, lined up. A non-zero rate below 0.001 would print as 0.0000 or
+ * 0.0001 and hide its size, so it gets scientific form with three significant digits instead.
+ */
 function figure(value: number | null, digits = 4) {
-  return value === null ? "—" : value.toFixed(digits);
+  if (value === null || !Number.isFinite(value)) return "—";
+  if (value !== 0 && Math.abs(value) < 1e-3) return value.toExponential(2).replace("e+", "e");
+  return value.toFixed(digits);
 }
+
+/** Columns that fold into the model cell's second line below the md breakpoint, so a phone shows the rates. */
+const wideOnly = new Set(["family", "states", "latestEdition", "updatedAt"]);
 
 export function ResultsTable({
   rows,
@@ -54,6 +63,10 @@ export function ResultsTable({
                 {r.title}
               </a>
               <span className="mt-0.5 line-clamp-2 max-w-md text-xs text-ink-soft">{r.summary}</span>
+              <span className="mt-1 block text-xs text-ink-soft md:hidden">
+                {familyLabels[r.family] ?? r.family}
+                {r.states !== null ? ` · ${r.states} states` : ""} · edition {r.latestEdition}
+              </span>
             </div>
           );
         },
@@ -116,7 +129,7 @@ export function ResultsTable({
                   <th
                     key={header.id}
                     scope="col"
-                    className={`px-3 py-2 align-bottom font-semibold ${numeric.has(header.column.id) ? "text-right" : ""}`}
+                    className={`px-3 py-2 align-bottom font-semibold ${numeric.has(header.column.id) ? "text-right" : ""} ${wideOnly.has(header.column.id) ? "max-md:hidden" : ""}`}
                     aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : canSort ? "none" : undefined}
                   >
                     {canSort ? (
@@ -137,7 +150,10 @@ export function ResultsTable({
           {table.getRowModel().rows.map((row) => (
             <tr key={row.id} className="border-b border-rule/60 align-top last:border-0 hover:bg-paper/60">
               {row.getAllCells().map((cell) => (
-                <td key={cell.id} className={`px-3 py-2 ${numeric.has(cell.column.id) ? "text-right font-mono" : ""} ${cell.column.id === "updatedAt" ? "whitespace-nowrap font-mono text-xs" : ""}`}>
+                <td
+                  key={cell.id}
+                  className={`px-3 py-2 ${numeric.has(cell.column.id) ? "text-right font-mono" : ""} ${cell.column.id === "updatedAt" ? "whitespace-nowrap font-mono text-xs leading-5" : ""} ${wideOnly.has(cell.column.id) ? "max-md:hidden" : ""}`}
+                >
                   <FlexRender cell={cell} />
                 </td>
               ))}

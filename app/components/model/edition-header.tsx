@@ -27,9 +27,13 @@ export function EditionHeader({ page }: { page: ModelPageData }) {
         </span>
         <span className="figures">Published {formatDate(edition.publishedAt)}</span>
         {page.viaLatest ? (
-          <a href={page.citeBase}>Permanent link to this edition</a>
+          <a href={page.citeBase} className="mp-screen-only">
+            Permanent link to this edition
+          </a>
         ) : (
-          <a href={`/library/${model.slug}`}>Model page (current edition)</a>
+          <a href={`/library/${model.slug}`} className="mp-screen-only">
+            Model page (current edition)
+          </a>
         )}
         <a href={`/workspace/new?slug=${encodeURIComponent(model.slug)}&edition=${edition.number}`} className="mp-screen-only" data-testid="adjust-copy">
           Adjust a copy in your workspace
@@ -61,7 +65,10 @@ export function EditionHeader({ page }: { page: ModelPageData }) {
           <p className="mt-1">
             Its figures stay here so that existing citations resolve; do not rely on them.{" "}
             {currentNumber !== null && currentNumber !== edition.number ? (
-              <a href={`/library/${model.slug}/e/${currentNumber}`}>Go to the current edition ({currentNumber})</a>
+              <>
+                <a href={`/library/${model.slug}/e/${currentNumber}`}>Go to the current edition ({currentNumber})</a>
+                <span className="mp-print-only font-mono text-xs"> {page.permalink.replace(/\/e\/\d+$/, `/e/${currentNumber}`)}</span>
+              </>
             ) : (
               "No edition of this model is currently unretracted."
             )}

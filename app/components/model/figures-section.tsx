@@ -2,7 +2,7 @@
 import type { ComputeResult } from "~/engine/compute";
 import type { VerificationRecord } from "~/engine/verification";
 import { formatRate, fromBits, unitLabel, useUnits } from "~/units";
-import { formatFixed, formatSmall } from "./format";
+import { formatFixed, formatSmall, formatSpread, tidyNumbersInText } from "./format";
 import { heatColour } from "./heat";
 import { MinEntropyCaution } from "./key-figures";
 import { PRINT_ROWS } from "./parameters";
@@ -27,6 +27,10 @@ export function FiguresSection({ figures, verification }: { figures: ComputeResu
   // Probabilities share the matrices' absolute 0–1 shading scale.
   const maxMu = 1;
   const showSymbolLaw = figures.symbolDistribution && figures.states.length !== figures.symbols.length;
+  // An order-k chain's states are its k-symbol contexts; say so where states are counted.
+  const stateNoun = figures.family === "markov" && figures.states.length !== figures.symbols.length ? "context" : figures.family === "graph-walk" ? "node" : "state";
+  // The Monte Carlo cross-check of a hidden source compares its own (wider) interval with the bounds.
+  const mcCheck = checksFor(verification, "entropyRate").find((c) => c.relation === "overlap" && c.interval);
   return (
     <div className="grid gap-4 md:grid-cols-2">
       <Figure title="Entropy rate" id="fig-rate">
@@ -99,7 +103,7 @@ export function FiguresSection({ figures, verification }: { figures: ComputeResu
             <li key={i}>
               <span className="font-semibold">{c.closed ? "Closed class" : "Transient class"}</span>{" "}
               <span className="text-ink-soft">
-                ({c.states.length} state{c.states.length === 1 ? "" : "s"}, {c.period === 1 ? "aperiodic" : c.period === 0 ? "no return" : `period ${c.period}`})
+                ({c.states.length} {stateNoun}{c.states.length === 1 ? "" : "s"}, {c.period === 1 ? "aperiodic" : c.period === 0 ? "no return" : `period ${c.period}`})
               </span>
               : <span className="font-mono text-xs">{c.states.slice(0, 12).map((s) => figures.states[s]).join(", ")}{c.states.length > 12 ? ", …" : ""}</span>
             </li>
@@ -139,7 +143,7 @@ export function FiguresSection({ figures, verification }: { figures: ComputeResu
               <div>
                 {showSymbolLaw && figures.symbolDistribution && (
                   <table className="mp-kv figures text-sm">
-                    <caption className="text-left text-xs text-ink-soft">Law of one emitted symbol</caption>
+                    <caption className="text-left text-xs text-ink-soft">Distribution of one emitted symbol</caption>
                     <tbody>
                       {figures.symbols.map((s, i) => (
                         <tr key={s}>
@@ -187,7 +191,7 @@ export function FiguresSection({ figures, verification }: { figures: ComputeResu
                       <th scope="row">{b.n}</th>
                       <td>{formatFixed(fromBits(b.lower, unit), 9)}</td>
                       <td>{formatFixed(fromBits(b.upper, unit), 9)}</td>
-                      <td>{formatSmall(fromBits(b.upper - b.lower, unit))}</td>
+                      <td>{formatSpread(fromBits(b.upper - b.lower, unit))}</td>
                     </tr>
                   ))}
                 </tbody>
@@ -201,6 +205,16 @@ export function FiguresSection({ figures, verification }: { figures: ComputeResu
                   [{formatFixed(fromBits(figures.monteCarlo.ci95[0], unit), 6)}, {formatFixed(fromBits(figures.monteCarlo.ci95[1], unit), 6)}]
                 </span>
                 .
+                {mcCheck?.interval && (
+                  <>
+                    {" "}
+                    Its check against the bounds uses the wider interval{" "}
+                    <span className="font-mono figures">
+                      [{formatFixed(fromBits(mcCheck.interval[0], unit), 6)}, {formatFixed(fromBits(mcCheck.interval[1], unit), 6)}]
+                    </span>{" "}
+                    stored with the verification (see the checks behind the entropy rate).
+                  </>
+                )}
               </p>
             )}
             <VerificationStatus checks={checksFor(verification, "bounds")} label="The bounds" />
@@ -213,7 +227,7 @@ export function FiguresSection({ figures, verification }: { figures: ComputeResu
           <h3 className="text-sm font-bold">Notes from the engine</h3>
           <ul className="mt-1 list-disc pl-5 text-sm text-ink-soft">
             {figures.notes.map((n, i) => (
-              <li key={i}>{n}</li>
+              <li key={i}>{tidyNumbersInText(n)}</li>
             ))}
           </ul>
         </div>

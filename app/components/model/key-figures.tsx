@@ -1,7 +1,12 @@
 /** The compact key-figures strip that leads the page, in the chosen unit. */
 import type { ComputeResult } from "~/engine/compute";
-import { formatRate, fromBits, unitLabel, useUnits } from "~/units";
-import { formatDate, formatFixed } from "./format";
+import { fromBits, unitLabel, useUnits, type Unit } from "~/units";
+import { formatDate, formatFixed, formatHeadline } from "./format";
+
+/** A rate of the strip in the chosen unit: six decimals, or four significant digits when it is below 0.001. */
+function stripRate(rate: { bits: number; nats: number }, unit: Unit): string {
+  return formatHeadline(unit === "bits" ? rate.bits : rate.nats, 6);
+}
 
 function classification(f: ComputeResult): string {
   const closed = f.classes.filter((c) => c.closed).length;
@@ -29,7 +34,19 @@ export function MinEntropyCaution() {
   );
 }
 
-export function KeyFigures({ figures, edition, total, publishedAt }: { figures: ComputeResult; edition: number; total: number; publishedAt: Date }) {
+export function KeyFigures({
+  figures,
+  edition,
+  total,
+  publishedAt,
+  retracted = false,
+}: {
+  figures: ComputeResult;
+  edition: number;
+  total: number;
+  publishedAt: Date;
+  retracted?: boolean;
+}) {
   const { unit } = useUnits();
   const u = unitLabel(unit);
   const hidden = figures.family === "hidden";
@@ -41,11 +58,13 @@ export function KeyFigures({ figures, edition, total, publishedAt }: { figures: 
         <Cell label={hidden ? "Entropy rate (bounds)" : "Entropy rate"} wide>
           {figures.entropyRate ? (
             <>
-              <span className="font-mono figures text-xl font-semibold" data-testid="entropy-rate">
-                {formatRate(figures.entropyRate, unit)}
-              </span>{" "}
-              <span className="text-sm" data-testid="entropy-rate-unit">
-                {u}
+              <span className="mp-kf-figure">
+                <span className="font-mono figures text-2xl font-bold sm:text-3xl" data-testid="entropy-rate">
+                  {stripRate(figures.entropyRate, unit)}
+                </span>{" "}
+                <span className="text-sm" data-testid="entropy-rate-unit">
+                  {u}
+                </span>
               </span>
               {hidden && last && (
                 <span className="mt-0.5 block font-mono figures text-xs text-ink-soft">
@@ -59,12 +78,12 @@ export function KeyFigures({ figures, edition, total, publishedAt }: { figures: 
         </Cell>
         <Cell label="Min-entropy rate">
           {figures.minEntropyRate ? (
-            <>
+            <span className="mp-kf-figure">
               <span className="font-mono figures text-lg font-semibold" data-testid="min-entropy-rate">
-                {formatRate(figures.minEntropyRate, unit)}
+                {stripRate(figures.minEntropyRate, unit)}
               </span>{" "}
               <span className="text-sm">{u}</span>
-            </>
+            </span>
           ) : (
             <span className="text-sm text-ink-soft">{hidden ? "not computed for hidden sources" : "—"}</span>
           )}
@@ -81,6 +100,11 @@ export function KeyFigures({ figures, edition, total, publishedAt }: { figures: 
           <span className="font-mono figures text-lg font-semibold">{edition}</span>
           <span className="text-sm"> of {total}</span>
           <span className="block font-mono figures text-xs text-ink-soft">{formatDate(publishedAt)}</span>
+          {retracted && (
+            <span className="mp-kf-retracted">
+              <span aria-hidden="true">⚠ </span>retracted
+            </span>
+          )}
         </Cell>
       </dl>
       {figures.minEntropyRate && <MinEntropyCaution />}

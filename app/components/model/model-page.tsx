@@ -62,7 +62,7 @@ export function ModelPage({ page }: { page: ModelPageData }) {
         </ul>
       </nav>
       <div className="mp-kf-wrap mt-4">
-        <KeyFigures figures={f} edition={edition.number} total={page.editions.length} publishedAt={edition.publishedAt} />
+        <KeyFigures figures={f} edition={edition.number} total={page.editions.length} publishedAt={edition.publishedAt} retracted={Boolean(edition.retractedAt)} />
       </div>
       <Section id="parameters" title="Parameters">
         <Parameters params={edition.params} figures={f} />

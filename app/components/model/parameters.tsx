@@ -4,7 +4,7 @@
  */
 import type { ComputeResult } from "~/engine/compute";
 import type { Label, ModelParams } from "~/engine/schema";
-import { formatParam } from "./format";
+import { formatParam, formatParamAt, sharedDecimals } from "./format";
 import { HEAT_LEGEND, heatColour } from "./heat";
 
 /** Rows printed on paper before the "first rows" note (screen shows all, in a scroll box). */
@@ -27,7 +27,26 @@ function sum(xs: readonly number[]): number {
   return s;
 }
 
-export function HeatLegend({ label }: { label: string }) {
+/**
+ * One number of a parameter table, at the table's shared decimals so the column lines up on its
+ * decimal point. An exact zero prints as "0" (a structural zero reads at a glance), padded with
+ * invisible decimals so it still lines up.
+ */
+function Num({ x, d }: { x: number; d: number }) {
+  if (x === 0 && d > 0) {
+    return (
+      <span className="mp-zero">
+        0
+        <span className="mp-pad" aria-hidden="true">
+          .{"0".repeat(d)}
+        </span>
+      </span>
+    );
+  }
+  return <>{formatParamAt(x, d)}</>;
+}
+
+export function HeatLegend({ label, range = "0 → 1" }: { label: string; range?: string }) {
   return (
     <p className="mp-legend mt-2 flex flex-wrap items-center gap-2 text-xs text-ink-soft">
       <span>{label}</span>
@@ -36,7 +55,7 @@ export function HeatLegend({ label }: { label: string }) {
           <span key={s.t} className="inline-block h-3 w-6" style={{ background: s.colour }} />
         ))}
       </span>
-      <span className="font-mono figures">0 → max</span>
+      <span className="font-mono figures">{range}</span>
       <span>(shading only supports the printed numbers)</span>
     </p>
   );
@@ -63,6 +82,7 @@ export function MatrixTable({
   id?: string;
 }) {
   const large = rows.length > PRINT_ROWS || colLabels.length > PRINT_COLS;
+  const d = sharedDecimals(rows.flat());
   return (
     <figure className="mp-matrix" id={id}>
       <div className="mp-scroll card" tabIndex={0} role="region" aria-label={`${caption} (scrolls)`}>
@@ -91,7 +111,7 @@ export function MatrixTable({
                 <th scope="row">{rowLabels[i]}</th>
                 {r.map((v, j) => (
                   <td key={j} className={j >= PRINT_COLS ? "mp-print-extra-col" : undefined} style={{ background: heatColour(scaleMax > 0 ? v / scaleMax : 0) }}>
-                    {formatParam(v)}
+                    <Num x={v} d={d} />
                   </td>
                 ))}
                 {rowSums && <td className="mp-sum">{formatParam(sum(r))}</td>}
@@ -118,6 +138,7 @@ export function MatrixTable({
 function VectorTable({ caption, head, labels, values, valueHead }: { caption: string; head: string; labels: string[]; values: number[]; valueHead: string }) {
   // Probabilities are shaded on the same absolute 0–1 scale as the matrices.
   const max = 1;
+  const d = sharedDecimals(values);
   return (
     <figure className="mp-matrix">
       <div className="mp-scroll card" tabIndex={0} role="region" aria-label={`${caption} (scrolls)`}>
@@ -135,7 +156,9 @@ function VectorTable({ caption, head, labels, values, valueHead }: { caption: st
             {labels.map((l, i) => (
               <tr key={l} className={i >= PRINT_ROWS ? "mp-print-extra" : undefined}>
                 <th scope="row">{l}</th>
-                <td style={{ background: heatColour(max > 0 ? values[i] / max : 0) }}>{formatParam(values[i])}</td>
+                <td style={{ background: heatColour(max > 0 ? values[i] / max : 0) }}>
+                  <Num x={values[i]} d={d} />
+                </td>
               </tr>
             ))}
           </tbody>
@@ -156,8 +179,10 @@ function GraphTables({ params }: { params: Extract<ModelParams, { family: "graph
   const maxW = Math.max(...params.edges.map((e) => e[2]), 0);
   const maxNode = Math.max(...weight.values(), 0);
   const total = sum(params.edges.map((e) => e[2]));
+  const dEdge = sharedDecimals(params.edges.map((e) => e[2]));
+  const dNode = sharedDecimals([...weight.values()]);
   return (
-    <div className="mp-print-cols grid gap-4 lg:grid-cols-[3fr_2fr]">
+    <div className="mp-print-cols grid grid-cols-1 gap-4 lg:grid-cols-[3fr_2fr]">
       <figure className="mp-matrix">
         <div className="mp-scroll card" tabIndex={0} role="region" aria-label="Edge list (scrolls)">
           <table className="mp-table font-mono figures text-xs">
@@ -167,7 +192,7 @@ function GraphTables({ params }: { params: Extract<ModelParams, { family: "graph
                 <th scope="col" className="font-sans">
                   node u
                 </th>
-                <th scope="col" className="font-sans">
+                <th scope="col" className="mp-left font-sans">
                   node v
                 </th>
                 <th scope="col">weight w</th>
@@ -178,7 +203,9 @@ function GraphTables({ params }: { params: Extract<ModelParams, { family: "graph
                 <tr key={i} className={i >= PRINT_ROWS ? "mp-print-extra" : undefined}>
                   <th scope="row">{text(u)}</th>
                   <td className="mp-left">{text(u) === text(v) ? `${text(v)} (self-loop)` : text(v)}</td>
-                  <td style={{ background: heatColour(maxW > 0 ? w / maxW : 0) }}>{formatParam(w)}</td>
+                  <td style={{ background: heatColour(maxW > 0 ? w / maxW : 0) }}>
+                    <Num x={w} d={dEdge} />
+                  </td>
                 </tr>
               ))}
             </tbody>
@@ -205,7 +232,9 @@ function GraphTables({ params }: { params: Extract<ModelParams, { family: "graph
               {nodes.map((n, i) => (
                 <tr key={n} className={i >= PRINT_ROWS ? "mp-print-extra" : undefined}>
                   <th scope="row">{n}</th>
-                  <td style={{ background: heatColour(maxNode > 0 ? (weight.get(n) ?? 0) / maxNode : 0) }}>{formatParam(weight.get(n) ?? 0)}</td>
+                  <td style={{ background: heatColour(maxNode > 0 ? (weight.get(n) ?? 0) / maxNode : 0) }}>
+                    <Num x={weight.get(n) ?? 0} d={dNode} />
+                  </td>
                 </tr>
               ))}
             </tbody>
@@ -270,6 +299,7 @@ export function Parameters({ params, figures }: { params: ModelParams; figures: 
       const order = params.order ?? 1;
       if (params.transitions) {
         const rows = params.transitions;
+        const d = sharedDecimals(rows.map((t) => t[2]));
         return (
           <figure className="mp-matrix">
             <div className="mp-scroll card" tabIndex={0} role="region" aria-label="Transitions (scrolls)">
@@ -280,7 +310,7 @@ export function Parameters({ params, figures }: { params: ModelParams; figures: 
                     <th scope="col" className="font-sans">
                       from
                     </th>
-                    <th scope="col" className="font-sans">
+                    <th scope="col" className="mp-left font-sans">
                       to
                     </th>
                     <th scope="col">P</th>
@@ -291,7 +321,9 @@ export function Parameters({ params, figures }: { params: ModelParams; figures: 
                     <tr key={k} className={k >= PRINT_ROWS ? "mp-print-extra" : undefined}>
                       <th scope="row">{symbols[i]}</th>
                       <td className="mp-left">{symbols[j]}</td>
-                      <td style={{ background: heatColour(p) }}>{formatParam(p)}</td>
+                      <td style={{ background: heatColour(p) }}>
+                        <Num x={p} d={d} />
+                      </td>
                     </tr>
                   ))}
                 </tbody>
@@ -323,7 +355,7 @@ export function Parameters({ params, figures }: { params: ModelParams; figures: 
       return (
         <>
           <GraphTables params={params} />
-          <HeatLegend label="Cell shading, by weight relative to the largest:" />
+          <HeatLegend label="Cell shading, by weight relative to the largest:" range="0 → largest" />
         </>
       );
     case "hidden": {
@@ -331,7 +363,7 @@ export function Parameters({ params, figures }: { params: ModelParams; figures: 
       const symbols = params.alphabet.map(text);
       return (
         <>
-          <div className="mp-print-cols grid gap-4 lg:grid-cols-2">
+          <div className="mp-print-cols grid grid-cols-1 gap-4 lg:grid-cols-2">
             <MatrixTable caption={`Hidden-state transition matrix P, ${states.length} × ${states.length}.`} corner="from ↓ to →" rowLabels={states} colLabels={states} rows={params.P} />
             <MatrixTable
               caption={`Emission table B: probability of each emitted symbol in each hidden state (${states.length} × ${symbols.length}).`}

@@ -8,6 +8,7 @@ import { CartesianGrid, Legend, Line, LineChart, ReferenceLine, Tooltip, XAxis, 
 import type { ComputeResult } from "~/engine/compute";
 import type { VerificationRecord } from "~/engine/verification";
 import { fromBits, unitLabel, useUnits } from "~/units";
+import { niceAxis } from "./axis";
 import { formatFixed } from "./format";
 import { PLOT } from "./heat";
 import { VerificationStatus, checksFor } from "./verification-view";
@@ -49,6 +50,7 @@ export function ConvergencePlot({ figures, verification }: { figures: ComputeRes
   if (rows.length === 0) return <p className="text-sm text-ink-soft">No block entropies are stored for this edition.</p>;
   const rate = fromBits(figures.entropyRate?.bits, unit);
   const last = figures.bounds?.[figures.bounds.length - 1];
+  const axis = niceAxis([...rows.flatMap((r) => [r.perSymbol, r.conditional, r.lower]), rate, fromBits(last?.lower, unit), fromBits(last?.upper, unit)]);
   const caption = hidden
     ? `H(Yⁿ)/n and the bounds H(Yₙ | Yⁿ⁻¹, X₁) ≤ H ≤ H(Yₙ | Yⁿ⁻¹) against n = 1 … ${rows.length}, in ${u}; dashed lines: the last lower and upper bounds.`
     : `H(Xⁿ)/n and H(Xₙ | Xⁿ⁻¹) against n = 1 … ${rows.length}, in ${u}, converging to the entropy rate (dashed line). H(Xⁿ)/n approaches from above, more slowly.`;
@@ -56,10 +58,10 @@ export function ConvergencePlot({ figures, verification }: { figures: ComputeRes
     <figure>
       <ChartBox label={caption}>
         {mounted && (
-          <LineChart responsive style={{ width: "100%", height: CHART_HEIGHT }} data={rows} margin={{ top: 8, right: 16, bottom: 24, left: 8 }}>
+          <LineChart responsive style={{ width: "100%", height: CHART_HEIGHT }} data={rows} margin={{ top: 8, right: 40, bottom: 24, left: 8 }}>
             <CartesianGrid stroke="#e4dccb" strokeDasharray="2 4" />
             <XAxis dataKey="n" type="number" domain={[1, rows.length]} allowDecimals={false} tick={tick} label={{ value: "block length n", position: "insideBottom", offset: -14, fontSize: 12, fill: "#26221d" }} />
-            <YAxis tick={tick} width={72} domain={["auto", "auto"]} tickFormatter={(v: number) => v.toFixed(4)} label={{ value: u, angle: -90, position: "insideLeft", fontSize: 12, fill: "#26221d" }} />
+            <YAxis tick={tick} width={72} domain={axis.domain} ticks={axis.ticks} interval={0} tickFormatter={(v: number) => v.toFixed(axis.decimals)} label={{ value: u, angle: -90, position: "insideLeft", fontSize: 12, fill: "#26221d" }} />
             <Tooltip formatter={(v) => (typeof v === "number" ? v.toFixed(8) : String(v))} labelFormatter={(n) => `n = ${n}`} />
             <Legend verticalAlign="top" height={24} wrapperStyle={{ fontSize: 12 }} />
             {!hidden && rate !== null && <ReferenceLine y={rate} stroke={PLOT.reference} strokeDasharray="6 4" label={{ value: "rate", position: "right", fontSize: 11, fill: "#26221d" }} />}
@@ -119,15 +121,16 @@ export function RenyiPlot({ figures }: { figures: ComputeResult }) {
     .map((p) => ({ order: p.order, rate: round(p.rate) }));
   const min = fromBits(figures.minEntropyRate?.bits, unit);
   const maxOrder = points[points.length - 1].order;
+  const axis = niceAxis([...points.map((p) => p.rate), min], { floor: 0 });
   const caption = `The Rényi entropy rate against the order α (stored orders, and the Shannon rate at α = 1), in ${u}; it falls with α towards the min-entropy rate${min !== null ? " (dashed asymptote)" : ""}.`;
   return (
     <figure>
       <ChartBox label={caption}>
         {mounted && (
-          <LineChart responsive style={{ width: "100%", height: CHART_HEIGHT }} data={points} margin={{ top: 8, right: 16, bottom: 24, left: 8 }}>
+          <LineChart responsive style={{ width: "100%", height: CHART_HEIGHT }} data={points} margin={{ top: 8, right: 40, bottom: 24, left: 8 }}>
             <CartesianGrid stroke="#e4dccb" strokeDasharray="2 4" />
             <XAxis dataKey="order" type="number" domain={[0, Math.ceil(maxOrder)]} tick={tick} label={{ value: "order α", position: "insideBottom", offset: -14, fontSize: 12, fill: "#26221d" }} />
-            <YAxis tick={tick} width={72} domain={[0, "auto"]} tickFormatter={(v: number) => v.toFixed(3)} label={{ value: u, angle: -90, position: "insideLeft", fontSize: 12, fill: "#26221d" }} />
+            <YAxis tick={tick} width={72} domain={axis.domain} ticks={axis.ticks} interval={0} tickFormatter={(v: number) => v.toFixed(axis.decimals)} label={{ value: u, angle: -90, position: "insideLeft", fontSize: 12, fill: "#26221d" }} />
             <Tooltip formatter={(v) => (typeof v === "number" ? v.toFixed(8) : String(v))} labelFormatter={(a) => `α = ${a}`} />
             <Legend verticalAlign="top" height={24} wrapperStyle={{ fontSize: 12 }} />
             {min !== null && <ReferenceLine y={min} stroke={PLOT.minEntropy} strokeDasharray="6 4" label={{ value: "min-entropy", position: "insideBottomRight", fontSize: 11, fill: "#26221d" }} />}

@@ -74,6 +74,7 @@ export function StateDiagram({ params, states }: { params: ModelParams; states: 
           )}
         </div>
       )}
+      {drawable && <p className="mt-1 text-xs text-ink-soft">Edge labels are rounded to three significant digits; the adjacency list gives them as published.</p>}
       <details className="mp-details mt-2 text-sm" open={!drawable}>
         <summary>Adjacency list ({graph.edgeMeaning}{graph.directed ? "" : "s, undirected"})</summary>
         <ul className="mp-adjacency mt-2 font-mono figures text-xs">

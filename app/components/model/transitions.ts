@@ -72,9 +72,15 @@ export function transitionGraph(params: ModelParams, stateLabels: readonly strin
   }
 }
 
-/** An edge number for a drawing: 3 significant digits. */
-function short(x: number): string {
-  return formatParam(Number(x.toPrecision(3)));
+/**
+ * An edge number for a drawing: 3 significant digits, except that a probability never reads as a
+ * certainty it is not (0.999999 stays 0.999999, not 1).
+ */
+export function diagramLabel(x: number): string {
+  const r = Number(x.toPrecision(3));
+  if ((r === 1 && x !== 1) || (r === 0 && x !== 0)) return formatParam(Number(x.toPrecision(6)));
+  const s = formatParam(r);
+  return s.includes("e") ? r.toExponential(2).replace("e+", "e") : s;
 }
 
 /** Mermaid-safe quoted text: quotes and angle brackets as entities (labels are user text). */
@@ -87,7 +93,7 @@ export function mermaidSource(g: TransitionGraph): string {
   const lines = ["flowchart LR"];
   g.nodes.forEach((n, i) => lines.push(`  s${i}(${quoted(n)})`));
   const arrow = g.directed ? "-->" : "---";
-  for (const e of g.edges) lines.push(`  s${e.from} ${arrow}|${quoted(short(e.value))}| s${e.to}`);
+  for (const e of g.edges) lines.push(`  s${e.from} ${arrow}|${quoted(diagramLabel(e.value))}| s${e.to}`);
   return lines.join("\n");
 }
 

@@ -50,6 +50,11 @@ function pageHref(q: SearchQuery, page: number): string {
   return `/library${s ? `?${s}` : ""}`;
 }
 
+/** True when the query narrows the library by anything but its words. */
+function hasFilters(q: SearchQuery): boolean {
+  return Boolean(q.family?.length || q.tags?.length || q.statesMin !== undefined || q.statesMax !== undefined || q.rateMin !== undefined || q.rateMax !== undefined || q.hasMinEntropy !== undefined);
+}
+
 /** The query string for a form's current values, without empty fields and without page when filters change. */
 function queryStringOf(form: HTMLFormElement, keepPage: boolean): string {
   const params = new URLSearchParams();
@@ -70,6 +75,18 @@ export default function Library({ loaderData }: Route.ComponentProps) {
   const formRef = useRef<HTMLFormElement>(null);
   const timer = useRef<ReturnType<typeof setTimeout> | undefined>(undefined);
   const generation = useRef(0);
+  const filtersRef = useRef<HTMLDetailsElement>(null);
+  // On a phone the filters fold away under the search box; they start unfolded when the address
+  // already sets one. React never changes `open` after the first render, so the reader's toggle stays.
+  const [filtersOpen] = useState(() => hasFilters(query));
+
+  useEffect(() => {
+    // Wide screens always show the filter column (CSS unfolds the disclosure); a browser without
+    // ::details-content styling gets it opened here instead.
+    const details = filtersRef.current;
+    const aside = details?.querySelector("aside");
+    if (details && aside && window.matchMedia("(min-width: 64rem)").matches && aside.getClientRects().length === 0) details.open = true;
+  }, []);
 
   useEffect(() => {
     setResult(loaderData.result);
@@ -129,6 +146,12 @@ export default function Library({ loaderData }: Route.ComponentProps) {
   const statesValue = STATE_RANGES.find((r) => r.min === current.statesMin && (r.max ?? undefined) === current.statesMax)?.value ?? "";
   const rateValue = current.rateMin !== undefined || current.rateMax !== undefined ? `${current.rateMin ?? ""}-${current.rateMax ?? ""}` : "";
   const familyCount = (f: string) => result.facets.family.find((x) => x.value === f)?.count ?? 0;
+  const activeFilters =
+    (current.family?.length ?? 0) +
+    (current.tags?.length ?? 0) +
+    (statesValue ? 1 : 0) +
+    (rateValue ? 1 : 0) +
+    (current.hasMinEntropy !== undefined ? 1 : 0);
 
   return (
     <div>
@@ -143,7 +166,7 @@ export default function Library({ loaderData }: Route.ComponentProps) {
         method="get"
         action="/library"
         ref={formRef}
-        className="mt-6 grid gap-6 lg:grid-cols-[15rem_1fr]"
+        className="mt-6 grid grid-cols-1 gap-x-6 gap-y-4 lg:grid-cols-[15rem_minmax(0,1fr)] lg:grid-rows-[auto_1fr]"
         onChange={(e) => {
           const target = e.target as unknown as HTMLInputElement;
           schedule(target.name === "q" || target.name === "rate" ? 220 : 0);
@@ -157,111 +180,117 @@ export default function Library({ loaderData }: Route.ComponentProps) {
         <input type="hidden" name="dir" defaultValue={query.dir ?? ""} />
         <input type="hidden" name="page" defaultValue={query.page && query.page > 1 ? String(query.page) : ""} />
 
-        <aside aria-label="Filters" className="space-y-5 text-sm lg:order-none">
-          <fieldset>
-            <legend className="eyebrow">Family</legend>
-            <ul className="mt-2 space-y-1">
-              {Object.entries(familyLabels).map(([value, label]) => (
-                <li key={value}>
-                  <label className="flex items-center justify-between gap-2">
-                    <span className="flex items-center gap-2">
-                      <input type="checkbox" name="family" value={value} defaultChecked={query.family?.includes(value as never)} className="h-4 w-4 accent-accent" />
-                      {label}
-                    </span>
-                    <span className="font-mono text-xs text-ink-soft">{familyCount(value)}</span>
-                  </label>
-                </li>
-              ))}
-            </ul>
-          </fieldset>
-          <fieldset>
-            <legend className="eyebrow">States</legend>
-            <ul className="mt-2 flex flex-wrap gap-x-3 gap-y-1">
-              <li>
-                <label className="flex items-center gap-1.5">
-                  <input type="radio" name="states" value="" defaultChecked={statesValue === ""} className="accent-accent" /> any
-                </label>
-              </li>
-              {STATE_RANGES.map((r) => (
-                <li key={r.value}>
-                  <label className="flex items-center gap-1.5">
-                    <input type="radio" name="states" value={r.value} defaultChecked={statesValue === r.value} className="accent-accent" />
-                    <span className="font-mono">{r.max === null ? `${r.min}+` : r.value}</span>
-                  </label>
-                </li>
-              ))}
-            </ul>
-          </fieldset>
-          <div>
-            <label htmlFor="rate" className="eyebrow block">
-              Entropy rate, bits/symbol
-            </label>
-            <input
-              id="rate"
-              name="rate"
-              type="text"
-              inputMode="decimal"
-              defaultValue={rateValue}
-              placeholder={result.facets.rate.min !== null ? `e.g. ${result.facets.rate.min.toFixed(2)}-${(result.facets.rate.max ?? 1).toFixed(2)}` : "e.g. 0.5-0.9"}
-              className="field mt-1 font-mono"
-              aria-describedby="rate-help"
-            />
-            <p id="rate-help" className="mt-1 text-xs text-ink-soft">
-              A range such as <code>0.5-0.9</code>, <code>0.99-</code> or <code>-0.1</code>.
-            </p>
-          </div>
-          <div>
-            <label htmlFor="minEntropy" className="eyebrow block">
-              Min-entropy rate
-            </label>
-            <select id="minEntropy" name="minEntropy" defaultValue={query.hasMinEntropy === undefined ? "" : query.hasMinEntropy ? "yes" : "no"} className="field mt-1">
-              <option value="">any</option>
-              <option value="yes">given</option>
-              <option value="no">not given</option>
-            </select>
-          </div>
-          {result.facets.tags.length > 0 ? (
+        <div className="flex gap-2 lg:col-start-2 lg:row-start-1" role="search">
+          <label htmlFor="library-q" className="sr-only">
+            Search the library
+          </label>
+          <input
+            id="library-q"
+            name="q"
+            type="search"
+            defaultValue={query.q}
+            autoComplete="off"
+            className="field min-w-0"
+            placeholder="Search titles, summaries, tags, state names…"
+          />
+          <button className="btn btn-primary" type="submit">
+            Search
+          </button>
+        </div>
+
+        <details ref={filtersRef} open={filtersOpen} className="lib-filters lg:col-start-1 lg:row-span-2 lg:row-start-1">
+          <summary className="lib-filters-summary">
+            Filters{activeFilters > 0 ? ` (${activeFilters} active)` : ""}
+          </summary>
+          <aside aria-label="Filters" className="space-y-5 text-sm">
             <fieldset>
-              <legend className="eyebrow">Tags</legend>
+              <legend className="eyebrow">Family</legend>
               <ul className="mt-2 space-y-1">
-                {result.facets.tags.slice(0, 14).map((t) => (
-                  <li key={t.value}>
+                {Object.entries(familyLabels).map(([value, label]) => (
+                  <li key={value}>
                     <label className="flex items-center justify-between gap-2">
                       <span className="flex items-center gap-2">
-                        <input type="checkbox" name="tag" value={t.value} defaultChecked={query.tags?.includes(t.value)} className="h-4 w-4 accent-accent" />
-                        {t.value}
+                        <input type="checkbox" name="family" value={value} defaultChecked={query.family?.includes(value as never)} className="h-4 w-4 accent-accent" />
+                        {label}
                       </span>
-                      <span className="font-mono text-xs text-ink-soft">{t.count}</span>
+                      <span className="font-mono text-xs text-ink-soft">{familyCount(value)}</span>
                     </label>
                   </li>
                 ))}
               </ul>
             </fieldset>
-          ) : null}
-          <a href="/library" className="inline-block text-sm font-semibold">
-            Clear all filters
-          </a>
-        </aside>
+            <fieldset>
+              <legend className="eyebrow">States</legend>
+              <ul className="mt-2 flex flex-wrap gap-x-3 gap-y-1">
+                <li>
+                  <label className="flex items-center gap-1.5">
+                    <input type="radio" name="states" value="" defaultChecked={statesValue === ""} className="accent-accent" /> any
+                  </label>
+                </li>
+                {STATE_RANGES.map((r) => (
+                  <li key={r.value}>
+                    <label className="flex items-center gap-1.5">
+                      <input type="radio" name="states" value={r.value} defaultChecked={statesValue === r.value} className="accent-accent" />
+                      <span className="font-mono">{r.max === null ? `${r.min}+` : r.value}</span>
+                    </label>
+                  </li>
+                ))}
+              </ul>
+            </fieldset>
+            <div>
+              <label htmlFor="rate" className="eyebrow block">
+                Entropy rate, bits/symbol
+              </label>
+              <input
+                id="rate"
+                name="rate"
+                type="text"
+                inputMode="decimal"
+                defaultValue={rateValue}
+                placeholder={result.facets.rate.min !== null ? `e.g. ${result.facets.rate.min.toFixed(2)}-${(result.facets.rate.max ?? 1).toFixed(2)}` : "e.g. 0.5-0.9"}
+                className="field mt-1 font-mono"
+                aria-describedby="rate-help"
+              />
+              <p id="rate-help" className="mt-1 text-xs text-ink-soft">
+                A range such as <code>0.5-0.9</code>, <code>0.99-</code> or <code>-0.1</code>.
+              </p>
+            </div>
+            <div>
+              <label htmlFor="minEntropy" className="eyebrow block">
+                Min-entropy rate
+              </label>
+              <select id="minEntropy" name="minEntropy" defaultValue={query.hasMinEntropy === undefined ? "" : query.hasMinEntropy ? "yes" : "no"} className="field mt-1">
+                <option value="">any</option>
+                <option value="yes">given</option>
+                <option value="no">not given</option>
+              </select>
+            </div>
+            {result.facets.tags.length > 0 ? (
+              <fieldset>
+                <legend className="eyebrow">Tags</legend>
+                <ul className="mt-2 space-y-1">
+                  {result.facets.tags.slice(0, 14).map((t) => (
+                    <li key={t.value}>
+                      <label className="flex items-center justify-between gap-2">
+                        <span className="flex items-center gap-2">
+                          <input type="checkbox" name="tag" value={t.value} defaultChecked={query.tags?.includes(t.value)} className="h-4 w-4 accent-accent" />
+                          {t.value}
+                        </span>
+                        <span className="font-mono text-xs text-ink-soft">{t.count}</span>
+                      </label>
+                    </li>
+                  ))}
+                </ul>
+              </fieldset>
+            ) : null}
+            <a href="/library" className="inline-block text-sm font-semibold">
+              Clear all filters
+            </a>
+          </aside>
+        </details>
 
-        <section aria-label="Results" className="min-w-0">
-          <div className="flex gap-2" role="search">
-            <label htmlFor="library-q" className="sr-only">
-              Search the library
-            </label>
-            <input
-              id="library-q"
-              name="q"
-              type="search"
-              defaultValue={query.q}
-              autoComplete="off"
-              className="field"
-              placeholder="Search titles, summaries, tags, state names…"
-            />
-            <button className="btn btn-primary" type="submit">
-              Search
-            </button>
-          </div>
-          <p className="mt-3 text-sm text-ink-soft" role="status" aria-live="polite">
+        <section aria-label="Results" className="min-w-0 lg:col-start-2 lg:row-start-2">
+          <p className="text-sm text-ink-soft" role="status" aria-live="polite">
             {pending ? "Searching… " : ""}
             {result.total === 0
               ? "No model matches. Try fewer words or clear a filter."
