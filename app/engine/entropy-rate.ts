@@ -142,12 +142,40 @@ export function graphWalkClosedForm(nodes: number, edges: WeightedEdges): { rate
   // table that stays in cache. The key hi·2^SH + (lo mod 2^SH) must fit a non-negative int32.
   let SH = 9;
   while (SH > 0 && nodes * 2 ** SH > 2 ** 31) SH--;
-  const LOW = (1 << SH) - 1;
   const blocks = ((nodes - 1) >>> SH) + 1;
 
-  // Pass 1: check each edge, node weights, block sizes.
+  // Pass 1: check each edge, node weights, block sizes; then the node pass.
   const W = new Float64Array(nodes);
   const blockStart = new Int32Array(blocks + 1);
+  checkAndWeigh(nodes, u, v, w, SH, W, blockStart);
+  const { twoW, nodeTerm } = nodeSums(W);
+  if (!(twoW >= 2 ** -900 && twoW <= 2 ** 900)) {
+    // x·log₂x could overflow or lose its last bits: rescale by a power of two (exact; the walk
+    // does not change when every weight is multiplied by the same factor).
+    const scale = 2 ** -Math.round(Math.log2(twoW));
+    return graphWalkClosedForm(nodes, { u, v, w: Float64Array.from(w, (x) => x * scale) });
+  }
+  let maxBlock = 0;
+  for (let k = 1; k <= blocks; k++) if (blockStart[k] > maxBlock) maxBlock = blockStart[k];
+
+  // Pass 2: scatter (key, weight) pairs into their blocks.
+  const keys = new Int32Array(m);
+  const weights = new Float64Array(m);
+  scatterToBlocks(u, v, w, SH, blockStart, keys, weights);
+
+  const edgeTerm = mergedEdgeTerm(keys, weights, blockStart, blocks, maxBlock, SH);
+  const stationary = W;
+  for (let i = 0; i < nodes; i++) stationary[i] /= twoW;
+  return { rate: rate((nodeTerm - edgeTerm) / twoW), stationary };
+}
+
+// graphWalkClosedForm's passes are separate functions, so that V8 optimises each loop whole after
+// a call or two instead of by on-stack replacement inside one long function (which kept
+// deoptimising as later loops were reached and took several calls to settle).
+
+/** Pass 1: checks every edge, adds node weights Wᵢ and counts edges per block of lo. */
+function checkAndWeigh(nodes: number, u: Int32Array, v: Int32Array, w: Float64Array, SH: number, W: Float64Array, blockStart: Int32Array): void {
+  const m = u.length;
   for (let e = 0; e < m; e++) {
     const a = u[e];
     const b = v[e];
@@ -158,33 +186,28 @@ export function graphWalkClosedForm(nodes: number, edges: WeightedEdges): { rate
     if (a !== b) W[b] += x;
     blockStart[((a < b ? a : b) >>> SH) + 1]++;
   }
-  // Node pass: 2W and Σ Wᵢ log₂ Wᵢ, both compensated.
+}
+
+/** Node pass: 2W = Σ Wᵢ and Σ Wᵢ log₂ Wᵢ, both compensated; throws on an isolated node. */
+function nodeSums(W: Float64Array): { twoW: number; nodeTerm: number } {
   const total = new Accumulator();
   const nodeTerm = new Accumulator();
-  for (let i = 0; i < nodes; i++) {
+  for (let i = 0; i < W.length; i++) {
     const x = W[i];
     if (!(x > 0)) isolatedNode(i);
     total.add(x);
     nodeTerm.add(x * Math.log2(x));
   }
-  const twoW = total.value();
-  if (!(twoW >= 2 ** -900 && twoW <= 2 ** 900)) {
-    // x·log₂x could overflow or lose its last bits: rescale by a power of two (exact; the walk
-    // does not change when every weight is multiplied by the same factor).
-    const scale = 2 ** -Math.round(Math.log2(twoW));
-    return graphWalkClosedForm(nodes, { u, v, w: Float64Array.from(w, (x) => x * scale) });
-  }
-  let maxBlock = 0;
-  for (let k = 0; k < blocks; k++) {
-    if (blockStart[k + 1] > maxBlock) maxBlock = blockStart[k + 1];
-    blockStart[k + 1] += blockStart[k];
-  }
+  return { twoW: total.value(), nodeTerm: nodeTerm.value() };
+}
 
-  // Pass 2: scatter (key, weight) pairs into their blocks.
+/** Pass 2: turns blockStart's counts into offsets and scatters (key, weight) into the blocks. */
+function scatterToBlocks(u: Int32Array, v: Int32Array, w: Float64Array, SH: number, blockStart: Int32Array, keys: Int32Array, weights: Float64Array): void {
+  const blocks = blockStart.length - 1;
+  for (let k = 0; k < blocks; k++) blockStart[k + 1] += blockStart[k];
   const fill = blockStart.slice(0, blocks);
-  const keys = new Int32Array(m);
-  const weights = new Float64Array(m);
-  for (let e = 0; e < m; e++) {
+  const LOW = (1 << SH) - 1;
+  for (let e = 0; e < u.length; e++) {
     const a = u[e];
     const b = v[e];
     const lo = a < b ? a : b;
@@ -192,11 +215,6 @@ export function graphWalkClosedForm(nodes: number, edges: WeightedEdges): { rate
     keys[p] = ((a < b ? b : a) << SH) | (lo & LOW);
     weights[p] = w[e];
   }
-
-  const edgeTerm = mergedEdgeTerm(keys, weights, blockStart, blocks, maxBlock, SH);
-  const stationary = W;
-  for (let i = 0; i < nodes; i++) stationary[i] /= twoW;
-  return { rate: rate((nodeTerm.value() - edgeTerm) / twoW), stationary };
 }
 
 /**
