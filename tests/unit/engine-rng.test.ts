@@ -74,7 +74,7 @@ describe("createRng", () => {
 describe("SplitMix64 seeding", () => {
   it("matches the published SplitMix64 outputs for seed 0", () => {
     // First three SplitMix64 outputs from state 0 (Steele, Lea and Flood 2014; values from memory,
-    // confirmed with a C transcription of the reference function).
+    // confirmed with a C port of the reference function).
     expect(splitMix64Sequence(0, 3)).toEqual([0xe220a8397b1dcdafn, 0x6e789e6aa1b965f4n, 0x06c45d188009454fn]);
   });
 
@@ -96,8 +96,8 @@ describe("xoshiro128**", () => {
     }
   });
 
-  it("matches a C transcription of the authors' reference code for seed 42", () => {
-    // Produced by the authors' published xoshiro128** next() transcribed to C (uint32_t arithmetic),
+  it("matches a C port of the authors' reference code for seed 42", () => {
+    // Produced by the authors' published xoshiro128** next() ported to C (uint32_t arithmetic),
     // seeded as here (two SplitMix64 outputs, low word first), compiled with gcc.
     const g = new Xoshiro128StarStar(42);
     const got = Array.from({ length: 6 }, () => g.nextUint32());
